@@ -1,0 +1,3 @@
+from screening.cli import main
+
+raise SystemExit(main())

@@ -1,0 +1,162 @@
+"""Screening results: arrays over all segments, with a per-segment view for people.
+
+The engine fills :class:`CorridorResult` with numpy arrays (shape ``(n,)`` per segment,
+``(n, m)`` per layer where ``m`` is the largest layer count, padded and masked). Code that
+shows one segment asks for :meth:`CorridorResult.segment`, which builds a small frozen
+:class:`SegmentResult` on demand, so a 10,000-segment screen never builds 10,000 objects.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+import numpy.typing as npt
+
+FloatArray = npt.NDArray[np.float64]
+IntArray = npt.NDArray[np.int64]
+BoolArray = npt.NDArray[np.bool_]
+
+CDR_CAP = 99.0
+"""CDRs are clipped to [0, CDR_CAP] so every reported ratio is finite."""
+
+UNITS = {
+    "sliding": "kN/m",
+    "eccentricity": "m",
+    "bearing": "kPa",
+    "pullout": "kN/m",
+    "rupture": "kN/m",
+    "compound": "kN·m/m",
+    "global": "kN·m/m",
+    "seismic": "kN/m",
+}
+
+
+@dataclass(frozen=True)
+class CheckArrays:
+    """One check over all segments, for its governing case (worst layer, worst surface)."""
+
+    demand: FloatArray
+    capacity: FloatArray
+    cdr: FloatArray
+    case: list[str]
+    """Name of the governing load case per segment."""
+    detail: list[str]
+    """Where it governs, in words ("layer 3 at 2.63 m"), per segment; "" when none."""
+
+
+@dataclass(frozen=True)
+class LayerArrays:
+    """Per-layer values, shape (n, m); ``mask`` is False on padding."""
+
+    mask: BoolArray
+    depth_m: FloatArray
+    """Depth of the layer below the top of the reinforced zone, m."""
+    tension_kn_m: FloatArray
+    """Factored T_max per metre run."""
+    pullout_capacity_kn_m: FloatArray
+    """Factored pullout resistance per metre run at the chosen L."""
+    rupture_capacity_kn_m: FloatArray
+    """Factored rupture resistance of the chosen grade per metre run."""
+    grade_index: IntArray
+    """Index into the reinforcement family's grades (-1 when none passes)."""
+    active_length_m: FloatArray
+    """La: from the face to the line of maximum tension at this depth, m."""
+
+
+@dataclass(frozen=True)
+class CheckResult:
+    """One check of one segment."""
+
+    demand: float
+    capacity: float
+    cdr: float
+    unit: str
+    case: str = ""
+    detail: str = ""
+
+    @property
+    def passes(self) -> bool:
+        return self.cdr >= 1.0
+
+
+@dataclass(frozen=True)
+class LayerResult:
+    depth_m: float
+    tension_kn_m: float
+    pullout_capacity_kn_m: float
+    rupture_capacity_kn_m: float
+    grade: str
+    active_length_m: float
+
+
+@dataclass(frozen=True)
+class SegmentResult:
+    """Everything screening says about one segment."""
+
+    id: str
+    verdict: str
+    """clear | marginal | refer."""
+    reasons: tuple[str, ...]
+    exposed_height_m: float
+    design_height_m: float
+    embedment_m: float
+    length_m: float
+    length_ratio: float
+    rule_length_m: float
+    governing: str
+    """Check with the smallest CDR (or the scope reason's key when referred out of scope)."""
+    min_cdr: float
+    checks: dict[str, CheckResult]
+    layers: tuple[LayerResult, ...]
+    traffic_kpa: float
+    extras: dict[str, object] = field(default_factory=dict)
+    """Later additions (critical slip circle, seismic values, quantities) by name."""
+
+
+@dataclass(frozen=True)
+class CorridorResult:
+    """The screen of a whole corridor, as arrays over segments in corridor order."""
+
+    ids: list[str]
+    factor_set: str
+    engine_version: str
+    verdict: list[str]
+    reasons: list[tuple[str, ...]]
+    exposed_height_m: FloatArray
+    design_height_m: FloatArray
+    embedment_m: FloatArray
+    length_m: FloatArray
+    rule_length_m: FloatArray
+    governing: list[str]
+    min_cdr: FloatArray
+    traffic_kpa: FloatArray
+    checks: dict[str, CheckArrays]
+    layers: LayerArrays
+    grade_names: list[tuple[str, ...]]
+    """Grade names of each segment's reinforcement family (for grade_index)."""
+    extras: dict[str, object] = field(default_factory=dict)
+    """Per-segment arrays added by later checks (e.g. "circle_x_m"), keyed by name."""
+
+    def __len__(self) -> int:
+        return len(self.ids)
+
+    @property
+    def length_ratio(self) -> FloatArray:
+        return self.length_m / self.design_height_m
+
+    def counts(self) -> dict[str, int]:
+        """Segments per verdict, all three keys present."""
+        out = {"clear": 0, "marginal": 0, "refer": 0}
+        for v in self.verdict:
+            out[v] += 1
+        return out
+
+    def index(self, segment_id: str) -> int:
+        return self.ids.index(segment_id)
+
+    def segment(self, i: int) -> SegmentResult:
+        """A frozen per-segment view of row ``i``."""
+        from screening.engine.result_view import segment_view
+
+        return segment_view(self, i)

@@ -1,0 +1,64 @@
+"""One exception family with a human title; the CLI prints it, the TUI shows it."""
+
+from __future__ import annotations
+
+
+class WallscreenError(Exception):
+    """Base of every error wallscreen reports to a person (never shown as a traceback)."""
+
+    title = "wallscreen error"
+
+
+class InputError(WallscreenError):
+    """Bad input: a file, a line/column or a segment and field, and what would be valid.
+
+    ``str(err)`` is the one-line message the CLI prints and the invalid-file corpus expects:
+    ``"<file>:<line>:<column>: <message>"`` for syntax errors,
+    ``"<file>: segment <id>, <field>: <message>"`` for a bad value of a segment,
+    ``"<file>: [<table>] <field>: <message>"`` for the other tables.
+    """
+
+    title = "Bad input"
+
+    def __init__(
+        self,
+        message: str,
+        *,
+        file: str | None = None,
+        line: int | None = None,
+        column: int | None = None,
+        segment: str | None = None,
+        field: str | None = None,
+        table: str | None = None,
+    ) -> None:
+        self.message = message
+        self.file = file
+        self.line = line
+        self.column = column
+        self.segment = segment
+        self.field = field
+        self.table = table
+        super().__init__(self.__str__())
+
+    def __str__(self) -> str:
+        where = self.file or "<input>"
+        if self.line is not None:
+            where += f":{self.line}"
+            if self.column is not None:
+                where += f":{self.column}"
+            return f"{where}: {self.message}"
+        parts = []
+        if self.segment is not None:
+            parts.append(f"segment {self.segment}")
+        elif self.table is not None:
+            parts.append(f"[{self.table}]")
+        if self.field is not None:
+            parts.append(self.field)
+        loc = (" " + ", ".join(parts)) if parts else ""
+        return f"{where}:{loc}: {self.message}" if loc else f"{where}: {self.message}"
+
+
+class EngineError(WallscreenError):
+    """A computation that could not finish (e.g. an iteration that did not converge)."""
+
+    title = "Screening failed"
