@@ -1,0 +1,306 @@
+"""Command line: ``wallscreen [FILE]`` opens the terminal interface; sub-commands screen,
+report, build and compare corridors without it.
+
+Exit codes: 0 the command ran (whatever the verdicts); 1 with ``check --strict`` when any
+segment is referred; 2 bad input (one clear message on stderr, never a traceback).
+Textual is imported only when the terminal interface starts.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from collections.abc import Sequence
+from pathlib import Path
+
+from screening import __version__
+from screening.errors import WallscreenError
+
+COMMANDS = ("check", "report", "new", "presets", "diff")
+
+EXIT_OK, EXIT_REFER, EXIT_BAD_INPUT = 0, 1, 2
+
+VERDICT_MARK = {"clear": "+", "marginal": "~", "refer": "!"}
+
+
+def _parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(
+        prog="wallscreen",
+        description=(
+            "Screen the reinforced-soil (MSE) walls of a road corridor. "
+            "Screening only, not a design: a licensed engineer and the governing local code decide."
+        ),
+    )
+    p.add_argument("--version", action="version", version=f"wallscreen {__version__}")
+    sub = p.add_subparsers(dest="command", metavar="COMMAND")
+
+    c = sub.add_parser("check", help="screen a corridor file and print the outcome")
+    c.add_argument("file", type=Path, help="corridor file (.toml)")
+    c.add_argument("--json", action="store_true", help="print JSON instead of a table")
+    c.add_argument("--factor-set", metavar="ID", help="screen under this factor set instead")
+    c.add_argument("--strict", action="store_true", help="exit 1 when any segment is referred")
+
+    r = sub.add_parser("report", help="write a report (.html, .md or .csv)")
+    r.add_argument("file", type=Path)
+    r.add_argument("-o", "--output", type=Path, required=True, help="OUT.html | OUT.md | OUT.csv")
+    r.add_argument("--factor-set", metavar="ID")
+    r.add_argument("--units", choices=("si", "us"), default="si", help="display units")
+
+    n = sub.add_parser("new", help="build a corridor file from a chainage profile")
+    n.add_argument("file", type=Path, help="corridor file to write")
+    n.add_argument("--from-profile", type=Path, required=True, metavar="PROFILE",
+                   help="CSV (chainage + levels or height) or LandXML profile")
+    n.add_argument("--name", help="corridor name (default: the profile's file name)")
+    n.add_argument("--max-step", type=float, default=0.5, metavar="M",
+                   help="new segment when the height changes by more than this (m)")
+    n.add_argument("--max-length", type=float, default=30.0, metavar="M",
+                   help="longest segment (m)")
+    n.add_argument("--break", dest="breaks", type=float, action="append", default=[],
+                   metavar="CHAINAGE", help="also split at this chainage (repeatable)")
+    n.add_argument("--factor-set", metavar="ID", default="aashto-lrfd")
+    n.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
+
+    s = sub.add_parser("presets", help="list every preset with its values")
+    s.add_argument("--json", action="store_true")
+
+    d = sub.add_parser("diff", help="compare two versions of a corridor")
+    d.add_argument("old", type=Path)
+    d.add_argument("new", type=Path)
+    d.add_argument("--json", action="store_true")
+    return p
+
+
+def _tui_parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(
+        prog="wallscreen",
+        description="Open the terminal interface on FILE (no FILE: the shipped demo corridor). "
+        f"Other commands: {', '.join(COMMANDS)} (wallscreen COMMAND --help).",
+    )
+    p.add_argument("--version", action="version", version=f"wallscreen {__version__}")
+    p.add_argument("file", type=Path, nargs="?", help="corridor file (.toml)")
+    return p
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    args_list = list(sys.argv[1:] if argv is None else argv)
+    try:
+        if args_list and args_list[0] in COMMANDS:
+            args = _parser().parse_args(args_list)
+            return _run(args)
+        if args_list and args_list[0] in ("-h", "--help"):
+            _parser().print_help()
+            print("\nwallscreen [FILE] opens the terminal interface.")
+            return EXIT_OK
+        args = _tui_parser().parse_args(args_list)
+        return _open_tui(args.file)
+    except WallscreenError as err:
+        print(f"wallscreen: {err}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        return 130
+
+
+def _run(args: argparse.Namespace) -> int:
+    handler = {
+        "check": _cmd_check,
+        "report": _cmd_report,
+        "new": _cmd_new,
+        "presets": _cmd_presets,
+        "diff": _cmd_diff,
+    }[args.command]
+    return handler(args)
+
+
+# ------------------------------------------------------------------ commands
+
+
+def _load_and_screen(path: Path, factor_set_id: str | None):
+    from dataclasses import replace
+
+    from screening import store
+    from screening.engine import screen
+    from screening.errors import InputError
+    from screening.presets import load_presets
+
+    corridor = store.load(path)
+    if factor_set_id:
+        sets = load_presets().factor_sets
+        if factor_set_id not in sets:
+            raise InputError(
+                f"unknown factor set {factor_set_id!r}; valid: {', '.join(sorted(sets))}",
+                file="--factor-set",
+            )
+        corridor = replace(corridor, factor_set=sets[factor_set_id])
+    return corridor, screen(corridor)
+
+
+def _cmd_check(args: argparse.Namespace) -> int:
+    corridor, result = _load_and_screen(args.file, args.factor_set)
+    if args.json:
+        from screening.jsonout import corridor_json
+
+        json.dump(corridor_json(corridor, result), sys.stdout, indent=1)
+        sys.stdout.write("\n")
+    else:
+        print(_table(corridor, result))
+    if args.strict and "refer" in result.verdict:
+        return EXIT_REFER
+    return EXIT_OK
+
+
+def _table(corridor, result) -> str:
+    """A plain-text table of the screen, readable without colour."""
+    from screening.jsonout import CAUTION
+
+    head = (
+        f"{'segment':<10} {'chainage m':>17} {'H m':>6} {'L m':>6} {'L/H':>5} "
+        f"{'governing':<13} {'CDR':>6}  verdict"
+    )
+    lines = [
+        f"{corridor.name}  —  factor set {result.factor_set}, engine {result.engine_version}",
+        head,
+        "-" * len(head) + "---------",
+    ]
+    for i, seg in enumerate(corridor.segments):
+        v = result.verdict[i]
+        ch = f"{seg.chainage_start_m:8.1f}–{seg.chainage_end_m:<8.1f}"
+        lines.append(
+            f"{seg.id:<10} {ch:>17} {result.design_height_m[i]:6.2f} {result.length_m[i]:6.1f} "
+            f"{result.length_ratio[i]:5.2f} {result.governing[i]:<13} "
+            f"{result.min_cdr[i]:6.2f}  {VERDICT_MARK[v]} {v}"
+        )
+    counts = result.counts()
+    lines.append("")
+    lines.append(
+        f"{len(result)} segments: {counts['clear']} clear, {counts['marginal']} marginal, "
+        f"{counts['refer']} refer (full design needed)"
+    )
+    refer_reasons = [
+        f"  {result.ids[i]}: {'; '.join(result.reasons[i])}"
+        for i in range(len(result))
+        if result.verdict[i] != "clear"
+    ]
+    if refer_reasons:
+        lines.append("Why:")
+        lines.extend(refer_reasons)
+    lines.append("")
+    lines.append(CAUTION)
+    return "\n".join(lines)
+
+
+def _cmd_report(args: argparse.Namespace) -> int:
+    from screening.errors import InputError
+    from screening.report import write_report
+
+    suffix = args.output.suffix.lower()
+    if suffix not in (".html", ".md", ".csv"):
+        raise InputError(
+            f"report type {suffix or '(none)'!r} not known; use .html, .md or .csv",
+            file=str(args.output),
+        )
+    corridor, result = _load_and_screen(args.file, args.factor_set)
+    write_report(corridor, result, args.output, units=args.units)
+    print(f"wrote {args.output}")
+    return EXIT_OK
+
+
+def _cmd_new(args: argparse.Namespace) -> int:
+    from screening import store
+    from screening.corridor import corridor_from_profile
+    from screening.errors import InputError
+
+    if args.file.exists() and not args.force:
+        raise InputError(
+            "file exists; choose another name or pass --force to overwrite it", file=str(args.file)
+        )
+    corridor = corridor_from_profile(
+        args.from_profile,
+        name=args.name or args.from_profile.stem,
+        factor_set_id=args.factor_set,
+        max_step_m=args.max_step,
+        max_length_m=args.max_length,
+        breaks=tuple(args.breaks),
+    )
+    store.save(args.file, corridor)
+    print(f"wrote {args.file}: {len(corridor.segments)} segments")
+    return EXIT_OK
+
+
+def _cmd_presets(args: argparse.Namespace) -> int:
+    from dataclasses import asdict
+
+    from screening.presets import load_presets
+
+    presets = load_presets()
+    groups = {
+        "fill": presets.fills,
+        "reinforcement": presets.reinforcement,
+        "factor-set": presets.factor_sets,
+    }
+    if args.json:
+        out = [
+            {"id": pid, "kind": kind, "values": asdict(obj)}
+            for kind, group in groups.items()
+            for pid, obj in group.items()
+        ]
+        out.append({"id": "rules", "kind": "rules", "values": asdict(presets.rules)})
+        json.dump(out, sys.stdout, indent=1)
+        sys.stdout.write("\n")
+        return EXIT_OK
+    for kind, group in groups.items():
+        print(f"{kind}:")
+        for pid, obj in group.items():
+            print(f"  {pid:<24} {_preset_line(obj)}")
+    print("rules:")
+    for k, v in asdict(presets.rules).items():
+        print(f"  {k:<36} {v}")
+    return EXIT_OK
+
+
+def _preset_line(obj) -> str:
+    from screening.model import FactorSet, Fill, Reinforcement
+
+    if isinstance(obj, Fill):
+        return (
+            f"γ {obj.unit_weight_kn_m3:g} kN/m³, φ {obj.friction_deg:g}°, c {obj.cohesion_kpa:g} kPa, "
+            f"Cu {obj.uniformity_coefficient:g}, fines {obj.fines_percent:g} %, "
+            f"PI {obj.plasticity_index:g} — {obj.name}"
+        )
+    if isinstance(obj, Reinforcement):
+        grades = ", ".join(g.name for g in obj.grades)
+        return f"{obj.material}, {obj.kind}, Sv {obj.spacing_m:g} m; grades: {grades}"
+    if isinstance(obj, FactorSet):
+        cases = ", ".join(c.name for c in obj.cases)
+        return f"{obj.method}: {obj.name}; cases: {cases}"
+    return repr(obj)
+
+
+def _cmd_diff(args: argparse.Namespace) -> int:
+    from screening import store
+    from screening.diff import diff_corridors, diff_json, diff_text
+    from screening.engine import screen
+
+    old, new = store.load(args.old), store.load(args.new)
+    changes = diff_corridors(old, new, screen(old), screen(new))
+    if args.json:
+        json.dump(diff_json(changes), sys.stdout, indent=1)
+        sys.stdout.write("\n")
+    else:
+        print(diff_text(changes))
+    return EXIT_OK
+
+
+def _open_tui(path: Path | None) -> int:
+    from screening.errors import InputError
+
+    if path is not None and not path.exists():
+        raise InputError("no such file; give an existing corridor file, or "
+                         "`wallscreen new FILE --from-profile PROFILE` to make one", file=str(path))
+    from screening.tui.app import run_app
+
+    return run_app(path)
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())
