@@ -1,0 +1,65 @@
+"""Earth-pressure and bearing-capacity coefficients, elementwise over numpy arrays.
+
+Angles are in degrees at the interface and radians inside. Every function broadcasts, so the
+engine passes ``(n, 1)`` segment arrays against ``(c,)`` case factors and gets ``(n, c)`` back.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import numpy.typing as npt
+
+from screening.engine.result import FloatArray
+
+ArrayLike = npt.ArrayLike
+
+
+def design_friction_deg(friction_deg: ArrayLike, tan_phi_factor: ArrayLike = 1.0) -> FloatArray:
+    """phi_d = atan(tan(phi) / gamma_phi), degrees (EN 1997-1 2.4.6.2 partial factor on tan phi')."""
+    phi = np.radians(np.asarray(friction_deg, dtype=np.float64))
+    return np.degrees(np.arctan(np.tan(phi) / np.asarray(tan_phi_factor, dtype=np.float64)))
+
+
+def rankine_ka(friction_deg: ArrayLike) -> FloatArray:
+    """Rankine active coefficient for a vertical back and level ground: tan^2(45 - phi/2)."""
+    phi = np.radians(np.asarray(friction_deg, dtype=np.float64))
+    return np.tan(np.pi / 4 - phi / 2) ** 2
+
+
+def coulomb_ka(
+    friction_deg: ArrayLike,
+    wall_friction_deg: ArrayLike = 0.0,
+    backslope_deg: ArrayLike = 0.0,
+    back_angle_deg: ArrayLike = 90.0,
+) -> FloatArray:
+    """Coulomb active coefficient, AASHTO LRFD Eq. 3.11.5.3-1 form.
+
+    ``back_angle_deg`` is theta, the angle of the back face from the horizontal (90 = vertical);
+    ``wall_friction_deg`` is delta; ``backslope_deg`` is beta. Where beta > phi the slope itself
+    is not stable and the root is taken as zero (largest Ka of the formula); screening refers
+    such slopes long before.
+    """
+    phi = np.radians(np.asarray(friction_deg, dtype=np.float64))
+    delta = np.radians(np.asarray(wall_friction_deg, dtype=np.float64))
+    beta = np.radians(np.asarray(backslope_deg, dtype=np.float64))
+    theta = np.radians(np.asarray(back_angle_deg, dtype=np.float64))
+    num = np.sin(phi + delta) * np.sin(phi - beta)
+    den = np.sin(theta - delta) * np.sin(theta + beta)
+    root = np.sqrt(np.clip(num / den, 0.0, None))
+    gamma = (1.0 + root) ** 2
+    return np.sin(theta + phi) ** 2 / (gamma * np.sin(theta) ** 2 * np.sin(theta - delta))
+
+
+def vesic_factors(friction_deg: ArrayLike) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """Bearing-capacity factors (Nc, Nq, N_gamma), Vesic (1973); AASHTO Table 10.6.3.1.2a-1.
+
+    Nq = e^(pi tan phi) tan^2(45 + phi/2); Nc = (Nq - 1) cot phi, 2 + pi at phi = 0;
+    N_gamma = 2 (Nq + 1) tan phi.
+    """
+    phi = np.radians(np.asarray(friction_deg, dtype=np.float64))
+    tan = np.tan(phi)
+    nq = np.exp(np.pi * tan) * np.tan(np.pi / 4 + phi / 2) ** 2
+    small = np.abs(tan) < 1e-9
+    nc = np.where(small, 2.0 + np.pi, (nq - 1.0) / np.where(small, 1.0, tan))
+    ngamma = 2.0 * (nq + 1.0) * tan
+    return nc, nq, ngamma
