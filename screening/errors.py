@@ -15,7 +15,8 @@ class InputError(WallscreenError):
     ``str(err)`` is the one-line message the CLI prints and the invalid-file corpus expects:
     ``"<file>:<line>:<column>: <message>"`` for syntax errors,
     ``"<file>: segment <id>, <field>: <message>"`` for a bad value of a segment,
-    ``"<file>: [<table>] <field>: <message>"`` for the other tables.
+    ``"<file>: [<table>] <field>: <message>"`` for the other tables; when the line of a
+    bad value is known it follows the file: ``"<file>:<line>:<column>: segment <id>, ..."``.
     """
 
     title = "Bad input"
@@ -46,16 +47,13 @@ class InputError(WallscreenError):
             where += f":{self.line}"
             if self.column is not None:
                 where += f":{self.column}"
-            return f"{where}: {self.message}"
-        parts = []
         if self.segment is not None:
-            parts.append(f"segment {self.segment}")
+            loc = f"segment {self.segment}" + (f", {self.field}" if self.field else "")
         elif self.table is not None:
-            parts.append(f"[{self.table}]")
-        if self.field is not None:
-            parts.append(self.field)
-        loc = (" " + ", ".join(parts)) if parts else ""
-        return f"{where}:{loc}: {self.message}" if loc else f"{where}: {self.message}"
+            loc = f"[{self.table}]" + (f" {self.field}" if self.field else "")
+        else:
+            loc = self.field or ""
+        return f"{where}: {loc}: {self.message}" if loc else f"{where}: {self.message}"
 
 
 class EngineError(WallscreenError):
