@@ -1,0 +1,124 @@
+"""A small TOML writer shaped for people reading diffs of corridor files.
+
+``tomli_w`` writes every nested table as its own ``[a.b]`` section. Corridor files read
+better with short tables inline (``retained = { unit_weight_kn_m3 = 19.0, ... }``), so
+this module lays out the document and leaves every scalar to ``tomli_w`` (strings are
+escaped, floats written with ``repr`` so they read back exactly). A table goes inline
+when it fits on one line and holds no array of tables; otherwise it becomes a section.
+"""
+
+from __future__ import annotations
+
+import datetime
+import re
+from typing import Any
+
+import numpy as np
+import tomli_w
+
+INLINE_MAX = 100
+"""Longest inline table written on one line, characters."""
+
+_BARE = re.compile(r"^[A-Za-z0-9_\-]+$")
+
+
+def to_builtin(value: Any) -> Any:
+    """numpy scalars and arrays, tuples and nested containers as plain TOML-able values.
+
+    Keys whose value is None are dropped; None inside an array is refused.
+    """
+    if isinstance(value, dict):
+        return {str(k): to_builtin(v) for k, v in value.items() if v is not None}
+    if isinstance(value, list | tuple):
+        if any(v is None for v in value):
+            raise TypeError("None cannot be written in a TOML array")
+        return [to_builtin(v) for v in value]
+    if isinstance(value, np.ndarray):
+        return to_builtin(value.tolist())
+    if isinstance(value, np.generic):
+        return value.item()
+    return value
+
+
+def key(name: str) -> str:
+    return name if _BARE.match(name) else tomli_w.dumps({"k": name})[4:].strip()
+
+
+def scalar(value: Any) -> str:
+    """One scalar (or array of scalars) in TOML, written by tomli_w."""
+    if isinstance(value, bool | int | float | str | datetime.date | datetime.time):
+        return tomli_w.dumps({"v": value})[4:].rstrip("\n")
+    raise TypeError(f"cannot write {type(value).__name__} to TOML")
+
+
+def _is_tables(value: Any) -> bool:
+    return isinstance(value, list) and bool(value) and all(isinstance(v, dict) for v in value)
+
+
+def inline(value: Any) -> str:
+    """A value on one line: inline tables and arrays nest."""
+    if isinstance(value, dict):
+        if not value:
+            return "{}"
+        return "{ " + ", ".join(f"{key(k)} = {inline(v)}" for k, v in value.items()) + " }"
+    if isinstance(value, list):
+        return "[" + ", ".join(inline(v) for v in value) + "]"
+    return scalar(value)
+
+
+ALWAYS_INLINE = frozenset({"fill", "retained", "foundation"})
+"""Soil tables stay on one line however long: a corridor file reads like a table of soils."""
+
+
+def _fits(name: str, value: dict[str, Any]) -> bool:
+    if any(_is_tables(v) for v in value.values()):
+        return False
+    return name in ALWAYS_INLINE or len(f"{name} = {inline(value)}") <= INLINE_MAX
+
+
+def _array(value: list[Any]) -> str:
+    one = inline(value)
+    if len(one) <= INLINE_MAX - 20 or not value:
+        return one
+    return "[\n" + "".join(f"    {inline(v)},\n" for v in value) + "]"
+
+
+def _section(
+    path: list[str],
+    body: dict[str, Any],
+    out: list[str],
+    *,
+    array: bool = False,
+    force: frozenset[str] = frozenset(),
+) -> None:
+    if path:
+        dotted = ".".join(key(p) for p in path)
+        out.append(f"\n[[{dotted}]]" if array else f"\n[{dotted}]")
+    later: list[tuple[str, Any, bool]] = []
+    for k, v in body.items():
+        if isinstance(v, dict) and (k in force or not _fits(k, v)):
+            later.append((k, v, False))
+        elif _is_tables(v) and (k in force or len(inline(v)) > INLINE_MAX - 20):
+            later.append((k, v, True))
+        elif isinstance(v, list):
+            out.append(f"{key(k)} = {_array(v)}")
+        else:
+            out.append(f"{key(k)} = {inline(v)}")
+    for k, v, is_array in later:
+        if is_array:
+            for item in v:
+                _section([*path, k], item, out, array=True, force=force)
+        else:
+            _section([*path, k], v, out, force=force)
+
+
+def dumps_document(doc: dict[str, Any]) -> str:
+    """The document as TOML text: top-level scalars, then tables in the order given.
+
+    ``screen``, ``corridor``, ``defaults``, ``rules``, ``segment`` and ``result`` are
+    always sections, so the file keeps the same shape whatever their size.
+    """
+    out: list[str] = []
+    force = frozenset({"screen", "corridor", "defaults", "rules", "segment", "result"})
+    _section([], doc, out, force=force)
+    return "\n".join(out).lstrip("\n") + "\n"
