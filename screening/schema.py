@@ -288,7 +288,7 @@ def text(value: Any, name: str, where: Where, *, nonempty: bool = False) -> str:
 
 def choice(value: Any, name: str, options: typing.Sequence[str], where: Where) -> str:
     if not isinstance(value, str) or value not in options:
-        got = describe(value)
+        got = f'"{value}"' if isinstance(value, str) else describe(value)
         raise where.error(name, f"must be one of {', '.join(options)} (got {got})")
     return value
 

@@ -69,7 +69,9 @@ def unknown_id(kind: str, value: str, options: Iterable[str]) -> str:
     options = list(options)
     from difflib import get_close_matches
 
-    close = get_close_matches(value, options, n=1, cutoff=0.6)
+    close = [o for o in options if o.startswith(value)] or get_close_matches(
+        value, options, n=1, cutoff=0.6
+    )
     hint = f'; did you mean "{close[0]}"?' if close else ""
     return f'unknown {kind} preset "{value}"{hint} (valid: {", ".join(options)})'
 
@@ -115,8 +117,7 @@ def parse_field(name: str, value: Any, where: Where, presets: Any) -> Any:
                 return value
             raise where.error(
                 name,
-                f"must be {', '.join(model.TRAFFIC_CLASSES)} or a number "
-                f"in kPa (got {describe(value)})",
+                f'must be {", ".join(model.TRAFFIC_CLASSES)} or a number in kPa (got "{value}")',
             )
         return number(value, name, where)
     if name == "fill":
