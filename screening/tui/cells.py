@@ -1,0 +1,103 @@
+"""How a segment and its screen read in the interface: table cells, verdict marks, summary.
+
+A verdict always shows as a symbol *and* a word, so it reads the same without colour
+(``NO_COLOR``) as with it. Cells are :class:`rich.text.Text`, never markup strings, so a
+segment id like ``"[A]"`` cannot break the table.
+"""
+
+from __future__ import annotations
+
+from rich.text import Text
+
+from screening.engine.result import CorridorResult
+from screening.model import Corridor, Segment
+
+VERDICT_MARK = {"clear": "○", "marginal": "◑", "refer": "●"}
+"""Hollow, half, full: the fuller the mark, the more the segment needs a designer."""
+VERDICT_STYLE = {"clear": "green", "marginal": "yellow", "refer": "bold red"}
+PENDING = "…"
+
+COLUMNS: tuple[tuple[str, str, int], ...] = (
+    ("id", "Id", 8),
+    ("chainage", "Chainage m", 13),
+    ("heights", "Height m", 10),
+    ("length", "L m", 5),
+    ("ratio", "L/H", 5),
+    ("governing", "Governs", 12),
+    ("cdr", "min CDR", 7),
+    ("verdict", "Verdict", 10),
+    ("fill", "Fill", 14),
+    ("reinforcement", "Reinforcement", 14),
+    ("traffic", "Traffic", 9),
+)
+"""(key, heading, width) of the corridor table, left to right."""
+
+
+def verdict_text(verdict: str) -> Text:
+    """``● refer`` in the verdict's colour; unknown or pending shows an ellipsis."""
+    if verdict not in VERDICT_MARK:
+        return Text(PENDING, style="dim")
+    return Text(f"{VERDICT_MARK[verdict]} {verdict}", style=VERDICT_STYLE[verdict])
+
+
+def traffic_text(traffic: str | float) -> str:
+    if isinstance(traffic, int | float):
+        return f"{float(traffic):g} kPa"
+    return str(traffic)
+
+
+def preset_name(obj: object) -> str:
+    """A fill's or reinforcement's preset id, or ``inline`` for values given in the file."""
+    return getattr(obj, "id", None) or "inline"
+
+
+def input_cells(seg: Segment) -> dict[str, Text]:
+    """The cells that depend on the inputs only."""
+    return {
+        "id": Text(seg.id, style="bold"),
+        "chainage": Text(f"{seg.chainage_start_m:.1f}–{seg.chainage_end_m:.1f}"),
+        "heights": Text(f"{seg.height_start_m:.1f}→{seg.height_end_m:.1f}"),
+        "fill": Text(preset_name(seg.fill)),
+        "reinforcement": Text(preset_name(seg.reinforcement)),
+        "traffic": Text(traffic_text(seg.traffic)),
+    }
+
+
+def result_cells(result: CorridorResult | None, i: int) -> dict[str, Text]:
+    """The cells that come from the screen (ellipses while it is not yet known)."""
+    if result is None:
+        blank = Text(PENDING, style="dim")
+        return {k: blank for k in ("length", "ratio", "governing", "cdr", "verdict")}
+    cdr = float(result.min_cdr[i])
+    verdict = result.verdict[i]
+    weak = cdr < 1.0
+    return {
+        "length": Text(f"{result.length_m[i]:.1f}", justify="right"),
+        "ratio": Text(f"{result.length_ratio[i]:.2f}", justify="right"),
+        "governing": Text(result.governing[i]),
+        "cdr": Text(f"{cdr:.2f}", justify="right", style="bold red" if weak else ""),
+        "verdict": verdict_text(verdict),
+    }
+
+
+def row_cells(seg: Segment, result: CorridorResult | None, i: int) -> list[Text]:
+    cells = input_cells(seg) | result_cells(result, i)
+    return [cells[key] for key, _, _ in COLUMNS]
+
+
+def summary_text(corridor: Corridor, result: CorridorResult | None) -> Text:
+    """Segments per verdict, total wall length and face area, factor set."""
+    segs = corridor.segments
+    length = sum(s.length_along_m for s in segs)
+    area = sum(s.face_area_m2 for s in segs)
+    out = Text()
+    out.append(f"{len(segs)} segments", style="bold")
+    if result is not None and len(result) == len(segs):
+        for verdict, count in result.counts().items():
+            out.append("   ")
+            out.append(f"{VERDICT_MARK[verdict]} {verdict} {count}", style=VERDICT_STYLE[verdict])
+    else:
+        out.append("   screening…", style="dim")
+    out.append(f"   wall {length:,.0f} m   face {area:,.0f} m²   ")
+    out.append(f"factor set {corridor.factor_set.id}", style="bold")
+    return out

@@ -1,0 +1,327 @@
+"""The corridor being worked on: inputs, their screen, the file, and undo/redo.
+
+No Textual here: the screens call these methods and redraw what they report changed.
+Every change keeps the previous ``(corridor, result)`` pair on the undo stack, so undo
+restores a screen without running the engine again. Edits to one segment re-screen only
+that segment (``engine.screen`` on a one-segment corridor, then ``engine.merge``);
+changes that add, remove or reorder segments, or switch the factor set, leave the
+result empty (``None``) for the app to screen the whole corridor again.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import re
+from dataclasses import dataclass
+from pathlib import Path
+
+from screening import engine, store
+from screening.engine.result import CorridorResult
+from screening.errors import InputError
+from screening.model import Corridor, Segment
+from screening.schema import Where
+from screening.tui.fields import parse_value, with_value
+from screening.validate import check_corridor, check_segment
+
+UNDO_DEPTH = 40
+
+
+@dataclass(frozen=True)
+class _State:
+    corridor: Corridor
+    result: CorridorResult | None
+    label: str
+
+
+@dataclass(frozen=True)
+class Change:
+    """What an operation changed, so the screen redraws only that."""
+
+    label: str
+    """Words for the status line, e.g. ``"E-04 height_end_m = 6.5"``."""
+    rows: tuple[int, ...] | None
+    """Rows whose inputs and results changed in place; None: the segment list changed."""
+    cursor: int | None = None
+    """Row to put the cursor on afterwards (None: leave it)."""
+
+
+def fresh_id(base: str, taken: set[str]) -> str:
+    """An id not in ``taken``, made from ``base``: ``E-04`` -> ``E-05`` if free, else
+    ``E-04b``, ``E-04c`` ... (the trailing number keeps its width)."""
+    match = re.fullmatch(r"(.*?)(\d+)", base)
+    if match:
+        stem, digits = match.groups()
+        candidate = f"{stem}{int(digits) + 1:0{len(digits)}d}"
+        if candidate not in taken:
+            return candidate
+    return lettered_id(base, taken)
+
+
+def lettered_id(base: str, taken: set[str]) -> str:
+    """``base`` with the first free letter b, c, ... appended (``base-N`` past z)."""
+    for letter in "bcdefghijklmnopqrstuvwxyz":
+        if f"{base}{letter}" not in taken:
+            return f"{base}{letter}"
+    n = 2
+    while f"{base}-{n}" in taken:
+        n += 1
+    return f"{base}-{n}"
+
+
+class Session:
+    """One open corridor."""
+
+    def __init__(self, corridor: Corridor, path: Path | None, presets: object) -> None:
+        self.corridor = corridor
+        self.result: CorridorResult | None = None
+        self.path = path
+        """File it was read from and saves to; None for the unsaved demo copy."""
+        self.presets = presets
+        self._undo: list[_State] = []
+        self._redo: list[_State] = []
+        self._saved: Corridor | None = corridor
+        self._coalesce: tuple[int, str] | None = None
+
+    # ------------------------------------------------------------------ state
+
+    @property
+    def dirty(self) -> bool:
+        """True when the inputs differ from the file (always, for the unsaved demo copy)."""
+        return self.corridor is not self._saved
+
+    @property
+    def can_undo(self) -> bool:
+        return bool(self._undo)
+
+    @property
+    def can_redo(self) -> bool:
+        return bool(self._redo)
+
+    def _push(self, label: str) -> None:
+        self._undo.append(_State(self.corridor, self.result, label))
+        del self._undo[:-UNDO_DEPTH]
+        self._redo.clear()
+
+    def _set_segments(self, segments: list[Segment] | tuple[Segment, ...]) -> None:
+        self.corridor = dataclasses.replace(self.corridor, segments=tuple(segments))
+
+    def screen_all(self) -> CorridorResult:
+        """Screen the whole corridor on this thread (small corridors, tests)."""
+        self.result = engine.screen(self.corridor)
+        return self.result
+
+    def accept_result(self, corridor: Corridor, result: CorridorResult) -> bool:
+        """Take a screen run elsewhere (a worker) if the inputs did not change meanwhile."""
+        if corridor is not self.corridor:
+            return False
+        self.result = result
+        return True
+
+    def _rescreen(self, rows: tuple[int, ...]) -> None:
+        """Re-screen ``rows`` in place, or leave the result empty if there is none yet."""
+        if self.result is None or len(self.result) != len(self.corridor.segments):
+            self.result = None
+            return
+        sub = dataclasses.replace(
+            self.corridor, segments=tuple(self.corridor.segments[i] for i in rows)
+        )
+        self.result = engine.merge(self.result, list(rows), engine.screen(sub))
+
+    # ------------------------------------------------------------------ edits
+
+    def parse(self, field: str, raw: str, row: int = 0) -> object:
+        """The value ``raw`` stands for in ``field`` (of segment ``row``, for soil values);
+        InputError says why not."""
+        return parse_value(self.corridor.segments[row], field, raw, self.presets)
+
+    def _checked(self, segments: list[Segment], rows: list[int], field: str) -> None:
+        """InputError unless the changed segments are consistent in themselves and, for a
+        change of id, wall or chainage, with the rest of the corridor."""
+        for i in rows:
+            check_segment(segments[i], Where("", segment=segments[i].id))
+        if field in ("id", "wall", "chainage_start_m", "chainage_end_m"):
+            check_corridor(tuple(segments), [Where("", segment=s.id) for s in segments])
+
+    def edit_field(self, row: int, field: str, raw: str) -> Change:
+        """Set one input of one segment from what the user typed, and re-screen it.
+
+        Successive edits of the same field of the same segment (typing ``6``, ``6.``,
+        ``6.5``) make one undo step.
+        """
+        value = self.parse(field, raw, row)
+        old = self.corridor.segments[row]
+        segments = list(self.corridor.segments)
+        segments[row] = new = with_value(old, field, value)
+        self._checked(segments, [row], field)
+        key = (row, field)
+        if self._coalesce != key or not self._undo:
+            self._push(f"{old.id} {field}")
+        self._coalesce = key
+        self._set_segments(segments)
+        self._rescreen((row,))
+        return Change(f"{new.id}: {field} = {raw.strip()}", (row,))
+
+    def end_edit(self) -> None:
+        """The editor closed: the next edit starts a new undo step."""
+        self._coalesce = None
+
+    def bulk_edit(self, rows: list[int], field: str, raw: str) -> Change:
+        """Set ``field`` to one value on every row of ``rows`` (one undo step)."""
+        value = self.parse(field, raw, rows[0])
+        segments = list(self.corridor.segments)
+        for i in rows:
+            segments[i] = with_value(segments[i], field, value)
+        self._checked(segments, rows, field)
+        self._push(f"bulk {field}")
+        self._coalesce = None
+        self._set_segments(segments)
+        self._rescreen(tuple(rows))
+        return Change(f"{field} = {raw.strip()} on {len(rows)} segments", tuple(rows))
+
+    # ------------------------------------------------------------------ corridor operations
+
+    def _structural(self, label: str, segments: list[Segment], cursor: int) -> Change:
+        self._push(label)
+        self._coalesce = None
+        self._set_segments(segments)
+        self.result = None
+        return Change(label, None, cursor)
+
+    def _taken(self) -> set[str]:
+        return {s.id for s in self.corridor.segments}
+
+    def add_after(self, row: int) -> Change:
+        """A new segment after ``row``: same wall and inputs, continuing its chainage at
+        its end height, 10 m long (or as long as the one before, if shorter)."""
+        base = self.corridor.segments[row]
+        length = min(10.0, base.length_along_m)
+        new = dataclasses.replace(
+            base,
+            id=fresh_id(base.id, self._taken()),
+            chainage_start_m=base.chainage_end_m,
+            chainage_end_m=base.chainage_end_m + length,
+            height_start_m=base.height_end_m,
+            height_end_m=base.height_end_m,
+            note="",
+        )
+        segments = list(self.corridor.segments)
+        segments.insert(row + 1, new)
+        return self._structural(f"added {new.id}", segments, row + 1)
+
+    def duplicate(self, row: int) -> Change:
+        """A copy of ``row`` with a new id, placed right after it along the chainage."""
+        base = self.corridor.segments[row]
+        new = dataclasses.replace(
+            base,
+            id=fresh_id(base.id, self._taken()),
+            chainage_start_m=base.chainage_end_m,
+            chainage_end_m=base.chainage_end_m + base.length_along_m,
+        )
+        segments = list(self.corridor.segments)
+        segments.insert(row + 1, new)
+        return self._structural(f"copied {base.id} to {new.id}", segments, row + 1)
+
+    def split(self, row: int, raw_chainage: str) -> Change:
+        """Cut ``row`` in two at a chainage strictly inside it; heights are interpolated."""
+        seg = self.corridor.segments[row]
+        try:
+            at = float(raw_chainage)
+        except ValueError:
+            raise InputError(
+                f"{raw_chainage.strip()!r} is not a number: type a chainage in metres",
+                segment=seg.id,
+                field="chainage",
+            ) from None
+        if not seg.chainage_start_m < at < seg.chainage_end_m:
+            raise InputError(
+                f"{at:g} is outside the segment: give a chainage between "
+                f"{seg.chainage_start_m:g} and {seg.chainage_end_m:g} m",
+                segment=seg.id,
+                field="chainage",
+            )
+        t = (at - seg.chainage_start_m) / seg.length_along_m
+        h_at = round(seg.height_start_m + t * (seg.height_end_m - seg.height_start_m), 3)
+        first = dataclasses.replace(seg, chainage_end_m=at, height_end_m=h_at)
+        second = dataclasses.replace(
+            seg,
+            id=lettered_id(seg.id, self._taken()),
+            chainage_start_m=at,
+            height_start_m=h_at,
+        )
+        segments = list(self.corridor.segments)
+        segments[row : row + 1] = [first, second]
+        return self._structural(f"split {seg.id} at {at:g} m", segments, row)
+
+    def delete(self, rows: list[int]) -> Change:
+        """Remove ``rows``; a corridor keeps at least one segment."""
+        if len(rows) >= len(self.corridor.segments):
+            raise InputError("a corridor needs at least one segment: add one before deleting this")
+        gone = set(rows)
+        ids = [self.corridor.segments[i].id for i in sorted(gone)]
+        segments = [s for i, s in enumerate(self.corridor.segments) if i not in gone]
+        label = f"deleted {ids[0]}" if len(ids) == 1 else f"deleted {len(ids)} segments"
+        return self._structural(label, segments, min(min(gone), len(segments) - 1))
+
+    def sort_by_chainage(self) -> Change:
+        """Order the segments by start chainage, then by wall."""
+        order = sorted(self.corridor.segments, key=lambda s: (s.chainage_start_m, s.wall, s.id))
+        return self._structural("put in chainage order", order, 0)
+
+    def set_factor_set(self, factor_set_id: str) -> Change:
+        """Screen the whole corridor under another factor set (from the presets)."""
+        factor_sets = self.presets.factor_sets
+        if factor_set_id not in factor_sets:
+            raise InputError(
+                f"unknown factor set {factor_set_id!r}; choose one of {', '.join(sorted(factor_sets))}",
+                field="factor_set",
+                table="corridor",
+            )
+        self._push(f"factor set {self.corridor.factor_set.id}")
+        self._coalesce = None
+        self.corridor = dataclasses.replace(self.corridor, factor_set=factor_sets[factor_set_id])
+        self.result = None
+        return Change(f"factor set {factor_set_id}", None)
+
+    # ------------------------------------------------------------------ undo / files
+
+    def undo(self) -> Change | None:
+        if not self._undo:
+            return None
+        state = self._undo.pop()
+        self._redo.append(_State(self.corridor, self.result, state.label))
+        return self._restore(state, f"undid {state.label}")
+
+    def redo(self) -> Change | None:
+        if not self._redo:
+            return None
+        state = self._redo.pop()
+        self._undo.append(_State(self.corridor, self.result, state.label))
+        return self._restore(state, f"redid {state.label}")
+
+    def _restore(self, state: _State, label: str) -> Change:
+        self._coalesce = None
+        same_rows = len(state.corridor.segments) == len(self.corridor.segments) and all(
+            a.id == b.id
+            for a, b in zip(state.corridor.segments, self.corridor.segments, strict=True)
+        )
+        rows = None
+        if same_rows and state.corridor.factor_set is self.corridor.factor_set:
+            rows = tuple(
+                i
+                for i, (a, b) in enumerate(
+                    zip(state.corridor.segments, self.corridor.segments, strict=True)
+                )
+                if a is not b
+            )
+        self.corridor, self.result = state.corridor, state.result
+        return Change(label, rows)
+
+    def save(self, path: Path | None = None) -> Path:
+        """Write the corridor and its screen through the store (atomic, with a backup)."""
+        target = Path(path) if path is not None else self.path
+        if target is None:
+            raise InputError("this corridor has no file yet: use save as and give a path")
+        store.save(target, self.corridor, self.result)
+        self.path = target
+        self._saved = self.corridor
+        return target

@@ -1,0 +1,63 @@
+"""The checks of one segment: demand, capacity and CDR each, the governing one marked."""
+
+from __future__ import annotations
+
+from rich.table import Table
+from rich.text import Text
+
+from screening.engine.result import SegmentResult
+
+
+def _num(value: float) -> str:
+    """Two decimals for small values (eccentricity in m), one otherwise."""
+    return f"{value:.2f}" if abs(value) < 10 else f"{value:.1f}"
+
+
+def checks_table(res: SegmentResult) -> Table:
+    """A Rich table of every check (governing case of each), weakest marked."""
+    table = Table(expand=True, box=None, header_style="bold", pad_edge=False)
+    for heading, justify in (
+        ("Check", "left"),
+        ("Case", "left"),
+        ("Demand", "right"),
+        ("Capacity", "right"),
+        ("Unit", "left"),
+        ("CDR", "right"),
+        ("", "left"),
+    ):
+        table.add_column(heading, justify=justify, no_wrap=True)
+    for name, check in res.checks.items():
+        governs = name == res.governing
+        status = "fails" if not check.passes else ("governs" if governs else "")
+        style = "bold red" if not check.passes else ("bold" if governs else "")
+        table.add_row(
+            Text(("▸ " if governs else "  ") + name, style=style),
+            Text(check.case),
+            _num(check.demand),
+            _num(check.capacity),
+            Text(check.unit, style="dim"),
+            Text(f"{check.cdr:.2f}", style=style),
+            Text(status, style=style),
+        )
+    return table
+
+
+def layers_table(res: SegmentResult) -> Table:
+    """Layer by layer: depth, T_max, pullout and rupture capacity, grade chosen."""
+    table = Table(box=None, header_style="bold", pad_edge=False)
+    for heading in ("#", "Depth m", "T_max kN/m", "Pullout kN/m", "Rupture kN/m", "Grade", "La m"):
+        table.add_column(heading, justify="left" if heading == "Grade" else "right", no_wrap=True)
+    for k, layer in enumerate(res.layers, start=1):
+        short = layer.pullout_capacity_kn_m < layer.tension_kn_m or (
+            layer.rupture_capacity_kn_m < layer.tension_kn_m
+        )
+        table.add_row(
+            str(k),
+            f"{layer.depth_m:.2f}",
+            f"{layer.tension_kn_m:.1f}",
+            f"{layer.pullout_capacity_kn_m:.1f}",
+            f"{layer.rupture_capacity_kn_m:.1f}",
+            Text(layer.grade or "none passes", style="bold red" if short else ""),
+            f"{layer.active_length_m:.2f}",
+        )
+    return table

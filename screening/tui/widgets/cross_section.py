@@ -1,0 +1,28 @@
+"""The cross-section sketch of one segment, drawn to the widget's size."""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.widget import Widget
+
+from screening.engine.result import SegmentResult
+from screening.model import Segment
+from screening.tui.sketch import draw_section
+
+
+class CrossSection(Widget):
+    """Facing, layers to L, line of maximum tension, ground, surcharges, embedment."""
+
+    def __init__(self, segment: Segment, result: SegmentResult, **kwargs: object) -> None:
+        super().__init__(**kwargs)
+        self.segment, self.result = segment, result
+
+    def show(self, segment: Segment, result: SegmentResult) -> None:
+        self.segment, self.result = segment, result
+        self.refresh()
+
+    def render(self) -> Text:
+        size = self.content_size
+        if size.width < 20 or size.height < 8:
+            return Text("(widen the terminal to see the sketch)", style="dim")
+        return draw_section(self.segment, self.result, size.width, size.height)

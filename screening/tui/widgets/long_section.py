@@ -1,0 +1,117 @@
+"""The long section: exposed heights along the chainage, each column in its verdict.
+
+Columns are bars of block characters (eight steps per row) scaled to the tallest wall;
+under them a line of verdict marks (readable without colour) and a chainage axis with a
+caret under the cursor's segment. Where walls overlap in chainage (left and right
+sides) a column shows the tallest height and the worst verdict.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from rich.text import Text
+from textual.widget import Widget
+
+from screening.engine.result import CorridorResult
+from screening.model import Corridor
+from screening.tui.cells import VERDICT_MARK, VERDICT_STYLE
+
+BLOCKS = " ▁▂▃▄▅▆▇█"
+RANK = {"clear": 0, "marginal": 1, "refer": 2}
+NAMES = ("clear", "marginal", "refer")
+
+
+def section_text(
+    corridor: Corridor, result: CorridorResult | None, cursor: int, width: int, height: int
+) -> Text:
+    """The strip as text, ``width`` x ``height`` cells (at least 4 rows)."""
+    segs = corridor.segments
+    bar_rows = max(height - 3, 1)
+    if not segs or width < 10:
+        return Text("")
+    start = np.array([s.chainage_start_m for s in segs])
+    end = np.array([s.chainage_end_m for s in segs])
+    h0 = np.array([s.height_start_m for s in segs])
+    h1 = np.array([s.height_end_m for s in segs])
+    lo, hi = float(start.min()), float(end.max())
+    span = max(hi - lo, 1e-6)
+    x = lo + (np.arange(width) + 0.5) * span / width  # chainage at the centre of each column
+    inside = (start[:, None] <= x[None, :]) & (x[None, :] <= end[:, None])
+    # columns narrower than a segment: make sure every segment owns at least its middle column
+    mid_col = np.clip(((start + end) / 2 - lo) / span * width, 0, width - 1).astype(int)
+    inside[np.arange(len(segs)), mid_col] = True
+    t = np.clip((x[None, :] - start[:, None]) / np.maximum(end - start, 1e-9)[:, None], 0, 1)
+    h = np.where(inside, h0[:, None] + t * (h1 - h0)[:, None], 0.0)
+    col_h = h.max(axis=0)
+    occupied = inside.any(axis=0)
+    if result is not None and len(result) == len(segs):
+        rank = np.array([RANK.get(v, 0) for v in result.verdict])
+        col_rank = np.where(inside, rank[:, None], -1).max(axis=0)
+    else:
+        col_rank = np.full(width, -1)
+    top = max(float(col_h.max()), 1e-6)
+    levels = np.rint(col_h / top * bar_rows * 8).astype(int)
+    on_cursor = inside[cursor] if 0 <= cursor < len(segs) else np.zeros(width, bool)
+
+    out = Text()
+    for r in range(bar_rows):
+        floor = (bar_rows - 1 - r) * 8
+        for c in range(width):
+            fill = int(np.clip(levels[c] - floor, 0, 8))
+            style = VERDICT_STYLE[NAMES[col_rank[c]]] if col_rank[c] >= 0 else "dim"
+            if on_cursor[c]:
+                style += " reverse" if fill else ""
+            out.append(BLOCKS[fill], style=style)
+        out.append("\n")
+    for c in range(width):
+        if not occupied[c]:
+            out.append(" ")
+        elif col_rank[c] >= 0:
+            name = NAMES[col_rank[c]]
+            out.append(VERDICT_MARK[name], style=VERDICT_STYLE[name])
+        else:
+            out.append("·", style="dim")
+    out.append("\n")
+    caret = [" "] * width
+    cols = np.flatnonzero(on_cursor)
+    if cols.size:
+        for c in cols:
+            caret[c] = "▔"
+        label = f" {segs[cursor].id} "
+        at = int(min(max(cols[-1] + 1, 0), width - len(label)))
+        if at <= cols[-1]:
+            at = max(int(cols[0]) - len(label), 0)
+        caret[at : at + len(label)] = list(label)
+    out.append("".join(caret), style="bold")
+    out.append("\n")
+    left, right = f"{lo:.0f} m", f"{hi:.0f} m  max {top:.1f} m"
+    axis = left + " " * max(width - len(left) - len(right), 1) + right
+    out.append(axis[:width], style="dim")
+    return out
+
+
+class LongSection(Widget):
+    """Heights and verdicts along the corridor, with the cursor's segment marked."""
+
+    DEFAULT_CSS = "LongSection { height: 8; }"
+
+    def __init__(self, **kwargs: object) -> None:
+        super().__init__(**kwargs)
+        self._corridor: Corridor | None = None
+        self._result: CorridorResult | None = None
+        self._cursor = 0
+
+    def show(self, corridor: Corridor, result: CorridorResult | None, cursor: int) -> None:
+        self._corridor, self._result, self._cursor = corridor, result, cursor
+        self.refresh()
+
+    def render(self) -> Text:
+        if self._corridor is None:
+            return Text("")
+        return section_text(
+            self._corridor,
+            self._result,
+            self._cursor,
+            self.content_size.width,
+            self.content_size.height,
+        )

@@ -1,0 +1,16 @@
+"""One line under the table: segments per verdict, wall length and face area, factor set."""
+
+from __future__ import annotations
+
+from textual.widgets import Static
+
+from screening.engine.result import CorridorResult
+from screening.model import Corridor
+from screening.tui.cells import summary_text
+
+
+class SummaryBar(Static):
+    """The corridor at a glance."""
+
+    def show(self, corridor: Corridor, result: CorridorResult | None) -> None:
+        self.update(summary_text(corridor, result))
