@@ -1,0 +1,167 @@
+"""The screening engine: ``screen(corridor) -> CorridorResult``, vectorised over all segments.
+
+Pipeline (each step one module, numpy over segments, no I/O, no UI):
+arrays (inputs as arrays) -> context (geometry, loads, design strengths) -> internal.prepare
+(tensions, grades, rupture) -> sizing (shortest passing L) -> sizing.evaluate (every check at
+that L) -> verdict (clear / marginal / refer and the reasons) -> CorridorResult.
+
+Checks added by other modules (compound, seismic) plug in as :class:`ExtraCheck` objects:
+a module ``screening.engine.compound`` or ``screening.engine.seismic`` that defines
+``EXTRA_CHECKS`` (a sequence of ExtraCheck) is picked up by :func:`default_extra_checks`.
+"""
+
+from __future__ import annotations
+
+import importlib
+import importlib.util
+from collections.abc import Generator, Sequence
+from dataclasses import replace
+
+import numpy as np
+
+from screening import __version__
+from screening.engine.arrays import SegmentArrays, build_arrays
+from screening.engine.combine import concat, merge
+from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, build_context
+from screening.engine.corrosion import steel_loss_per_side_mm
+from screening.engine.internal import InternalSetup, prepare, pullout_layers
+from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
+from screening.engine.sizing import evaluate, size_length
+from screening.engine.verdict import decide
+from screening.model import CHECKS, Corridor, FactorSet
+
+__all__ = [
+    "ExtraCheck",
+    "ScreenContext",
+    "concat",
+    "default_extra_checks",
+    "merge",
+    "screen",
+    "screen_arrays",
+    "screen_iter",
+]
+
+ENGINE_VERSION = __version__
+PLUGIN_MODULES = ("screening.engine.compound", "screening.engine.seismic")
+
+
+def default_extra_checks() -> tuple[ExtraCheck, ...]:
+    """ExtraCheck objects of the plug-in modules that exist (their ``EXTRA_CHECKS``)."""
+    found: list[ExtraCheck] = []
+    for name in PLUGIN_MODULES:
+        if importlib.util.find_spec(name) is None:
+            continue
+        found.extend(getattr(importlib.import_module(name), "EXTRA_CHECKS", ()))
+    return tuple(found)
+
+
+def screen(
+    corridor: Corridor,
+    factor_set: FactorSet | None = None,
+    extra_checks: Sequence[ExtraCheck] | None = None,
+) -> CorridorResult:
+    """Screen every segment of ``corridor`` under ``factor_set`` (default: the corridor's own).
+
+    ``extra_checks`` None means :func:`default_extra_checks`; pass ``()`` for the core checks only.
+    """
+    extras = default_extra_checks() if extra_checks is None else tuple(extra_checks)
+    return screen_arrays(build_arrays(corridor, factor_set), extras)
+
+
+def screen_iter(
+    corridor: Corridor,
+    chunk_size: int = 500,
+    factor_set: FactorSet | None = None,
+    extra_checks: Sequence[ExtraCheck] | None = None,
+) -> Generator[tuple[int, int], None, CorridorResult]:
+    """Screen in chunks of ``chunk_size`` segments, yielding ``(done, total)`` after each.
+
+    The CorridorResult is the generator's return value (``StopIteration.value``; ``result =
+    yield from screen_iter(...)`` in a driving generator). Identical to :func:`screen`.
+    """
+    if chunk_size < 1:
+        raise ValueError("chunk_size must be at least 1")
+    extras = default_extra_checks() if extra_checks is None else tuple(extra_checks)
+    total = len(corridor.segments)
+    parts: list[CorridorResult] = []
+    for start in range(0, max(total, 1), chunk_size):
+        chunk = replace(corridor, segments=corridor.segments[start : start + chunk_size])
+        parts.append(screen_arrays(build_arrays(chunk, factor_set), extras))
+        yield min(start + chunk_size, total), total
+    return concat(parts)
+
+
+def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> CorridorResult:
+    """The engine proper, on inputs already turned into arrays."""
+    ctx = build_context(a)
+    setup = prepare(ctx)
+    sizing = size_length(ctx, setup, extras)
+    checks = evaluate(ctx, setup, extras, sizing.length_m)
+    unchecked = {name for name in CHECKS if not a.cases.uses(name).any()}
+    outcome = decide(ctx, sizing, checks, unchecked)
+    extra_arrays: dict[str, object] = {
+        "embedment_ratio": ctx.geom.embedment_ratio,
+        "max_length_m": ctx.geom.max_length_m,
+        "search_exhausted": sizing.exhausted,
+        "layer_count": ctx.geom.layer_count,
+        "spacing_m": a.spacing_m,
+        "design_life_years": a.design_life_years,
+        "steel_loss_per_side_mm": np.where(
+            a.inextensible, steel_loss_per_side_mm(a.zinc_um, a.design_life_years), 0.0
+        ),
+    }
+    for check in extras:
+        if getattr(check, "report", None) is not None:
+            extra_arrays.update(check.report(ctx, sizing.length_m))
+    return CorridorResult(
+        ids=list(a.ids),
+        factor_set=a.factor_set_id,
+        engine_version=ENGINE_VERSION,
+        verdict=outcome.verdict,
+        reasons=outcome.reasons,
+        exposed_height_m=a.exposed_height_m,
+        design_height_m=ctx.geom.design_height_m,
+        embedment_m=ctx.geom.embedment_m,
+        length_m=sizing.length_m,
+        rule_length_m=ctx.geom.rule_length_m,
+        governing=outcome.governing,
+        min_cdr=np.clip(outcome.min_cdr, 0.0, CDR_CAP),
+        traffic_kpa=ctx.live_kpa,
+        checks={name: _check_arrays(a, v, name in unchecked) for name, v in checks.items()},
+        layers=_layer_arrays(ctx, setup, sizing.length_m),
+        grade_names=list(a.grade_names),
+        extras=extra_arrays,
+    )
+
+
+def _check_arrays(a: SegmentArrays, v: CheckValues, unchecked: bool) -> CheckArrays:
+    names = np.array([*a.cases.names, ""], dtype=object)
+    case = names[np.where(v.case < 0, len(names) - 1, v.case)].tolist()
+    if unchecked:
+        detail = ["not checked by this factor set"] * a.n
+    else:
+        detail = list(v.detail) if v.detail is not None else [""] * a.n
+    return CheckArrays(
+        demand=np.asarray(v.demand, dtype=np.float64),
+        capacity=np.asarray(v.capacity, dtype=np.float64),
+        cdr=np.clip(np.asarray(v.cdr, dtype=np.float64), 0.0, CDR_CAP),
+        case=case,
+        detail=detail,
+    )
+
+
+def _layer_arrays(ctx: ScreenContext, s: InternalSetup, length_m) -> LayerArrays:
+    capacity, _ = pullout_layers(ctx, s, length_m)
+    uses = ctx.cases.uses("pullout")
+    pick = uses if uses.any() else np.ones_like(uses)
+    pull = np.where(pick[None, :, None], capacity, np.inf).min(axis=1)
+    mask = s.mask
+    return LayerArrays(
+        mask=mask,
+        depth_m=ctx.geom.layer_depth_m,
+        tension_kn_m=s.tension_design,
+        pullout_capacity_kn_m=np.where(mask, pull, 0.0),
+        rupture_capacity_kn_m=s.rupture_capacity,
+        grade_index=np.where(mask & s.grade_passes, s.grade_index, -1),
+        active_length_m=s.active_length,
+    )

@@ -1,0 +1,143 @@
+"""What every check needs, computed once per screen: inputs, geometry, loads, design strengths.
+
+Shapes: ``(n,)`` per segment, ``(n, c)`` per segment and load case, ``(n, m)`` per layer.
+A check takes a :class:`ScreenContext` and a trial length ``L`` of shape ``(n,)``; checks added
+later (compound, seismic) receive the same two arguments.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass
+
+import numpy as np
+
+from screening.engine.arrays import CaseArrays, SegmentArrays
+from screening.engine.geometry import Geometry, build_geometry
+from screening.engine.loads import traffic_kpa
+from screening.engine.pressure import coulomb_ka, design_friction_deg, rankine_ka
+from screening.engine.result import CDR_CAP, FloatArray, IntArray
+
+
+@dataclass(frozen=True)
+class ScreenContext:
+    """Inputs as arrays plus everything derived from them that does not depend on L."""
+
+    a: SegmentArrays
+    geom: Geometry
+    live_kpa: FloatArray
+    """Unfactored traffic surcharge q_LL, (n,)."""
+    slope_surcharge_kpa: FloatArray
+    """Equivalent uniform surcharge of a backslope on the layers, 0.5*(0.7H)*tan(beta)*gamma, (n,)."""
+    ka_retained: FloatArray
+    """Coulomb Ka of the retained fill with delta = beta on a vertical back, (n, c)."""
+    ka_fill: FloatArray
+    """Rankine Ka of the reinforced fill (level, delta = 0 whatever the backslope), (n, c)."""
+    tan_fill: FloatArray
+    """Design tan(phi_r), (n, c)."""
+    tan_base: FloatArray
+    """Design tan of the base sliding friction, min(phi_r, phi_f), (n, c)."""
+    found_friction_deg: FloatArray
+    """Design phi of the foundation, (n, c)."""
+    found_cohesion_kpa: FloatArray
+    """Design c' of the foundation, (n, c)."""
+    found_undrained_kpa: FloatArray
+    """Design cu of the foundation, (n, c); NaN when drained."""
+
+    @property
+    def n(self) -> int:
+        return self.a.n
+
+    @property
+    def cases(self) -> CaseArrays:
+        return self.a.cases
+
+
+def build_context(a: SegmentArrays) -> ScreenContext:
+    geom = build_geometry(a)
+    c = a.cases
+    beta = a.backslope_deg
+    phi_b = design_friction_deg(a.retained_friction_deg[:, None], c.tan_phi[None, :])
+    phi_r = design_friction_deg(a.fill_friction_deg[:, None], c.tan_phi[None, :])
+    phi_f = design_friction_deg(a.found_friction_deg[:, None], c.tan_phi[None, :])
+    # Backslope on the layers [from memory, AASHTO Fig. 11.10.6.2.1-2]: the slope over the
+    # first 0.7H behind the face as a uniform surcharge of half its height.
+    slope_q = (
+        0.5 * 0.7 * geom.design_height_m * np.tan(np.radians(beta)) * a.retained_unit_weight_kn_m3
+    )
+    return ScreenContext(
+        a=a,
+        geom=geom,
+        live_kpa=traffic_kpa(a, geom.design_height_m),
+        slope_surcharge_kpa=slope_q,
+        ka_retained=coulomb_ka(phi_b, beta[:, None], beta[:, None]),
+        ka_fill=rankine_ka(phi_r),
+        tan_fill=np.tan(np.radians(phi_r)),
+        tan_base=np.tan(np.radians(np.minimum(phi_r, phi_f))),
+        found_friction_deg=phi_f,
+        found_cohesion_kpa=a.found_cohesion_kpa[:, None] / c.cohesion[None, :],
+        found_undrained_kpa=a.found_undrained_kpa[:, None] / c.undrained[None, :],
+    )
+
+
+@dataclass(frozen=True)
+class CheckValues:
+    """One check over all segments for its governing case (and layer), shape ``(n,)``."""
+
+    demand: FloatArray
+    capacity: FloatArray
+    cdr: FloatArray
+    case: IntArray
+    """Index of the governing load case; -1 where no case lists the check."""
+    detail: list[str] | None = None
+    """Words on where it governs, per segment (None: none to give)."""
+
+
+def ratio(capacity: FloatArray, demand: FloatArray) -> FloatArray:
+    """capacity / demand, CDR_CAP where nothing drives; clipped to [0, CDR_CAP]."""
+    with np.errstate(divide="ignore", invalid="ignore"):
+        r = np.where(demand > 1e-12, capacity / np.where(demand > 1e-12, demand, 1.0), CDR_CAP)
+    return np.clip(np.nan_to_num(r, nan=CDR_CAP, posinf=CDR_CAP), 0.0, CDR_CAP)
+
+
+def worst_case(
+    cases: CaseArrays, check: str, demand: FloatArray, capacity: FloatArray, cdr: FloatArray
+) -> CheckValues:
+    """Reduce ``(n, c)`` values to the case with the smallest CDR among those listing ``check``."""
+    uses = cases.uses(check)
+    masked = np.where(uses[None, :], cdr, np.inf)
+    idx = np.argmin(masked, axis=1)
+    rows = np.arange(cdr.shape[0])
+    none = ~uses.any()
+    return CheckValues(
+        demand=demand[rows, idx],
+        capacity=capacity[rows, idx],
+        cdr=np.full(cdr.shape[0], CDR_CAP) if none else cdr[rows, idx],
+        case=np.full(cdr.shape[0], -1) if none else idx.astype(np.int64),
+    )
+
+
+ExtraEvaluate = Callable[[ScreenContext, FloatArray], tuple]
+"""(ctx, L) -> (demand, capacity, cdr) or (demand, capacity, cdr, detail), each ``(n,)``."""
+
+
+@dataclass(frozen=True)
+class ExtraCheck:
+    """A check added by another module (compound, seismic), evaluated like the built-in ones.
+
+    ``sizes_length``: True when a longer L may make it pass, so sizing searches for it.
+    ``report``: optional (ctx, L) -> {name: (n,) array} of values to keep in
+    ``CorridorResult.extras`` (e.g. the critical circle), evaluated once at the chosen L.
+    """
+
+    name: str
+    evaluate: ExtraEvaluate
+    sizes_length: bool = True
+    report: Callable[[ScreenContext, FloatArray], dict[str, np.ndarray]] | None = None
+
+    def values(self, ctx: ScreenContext, length_m: FloatArray) -> CheckValues:
+        out = self.evaluate(ctx, length_m)
+        demand, capacity, cdr = (np.asarray(v, dtype=np.float64) for v in out[:3])
+        detail = list(out[3]) if len(out) > 3 else None
+        cdr = np.clip(np.nan_to_num(cdr, nan=0.0, posinf=CDR_CAP), 0.0, CDR_CAP)
+        return CheckValues(demand, capacity, cdr, np.full(ctx.n, -1, dtype=np.int64), detail)

@@ -1,0 +1,138 @@
+"""Outcome of each segment: clear, marginal or refer, with the reasons in words (METHOD section 7).
+
+Every threshold comes from :class:`screening.model.Rules`. The decisions are numpy masks over
+all segments; only the sentences are written one by one, for the segments a mask flags.
+
+- refer: a check fails at the chosen L (which is the longest screening tries when nothing
+  passes), or the segment is outside the scope of screening (too high, soft foundation,
+  marginal fill, water in the fill, steep backslope, strong shaking, tiered or back-to-back).
+- marginal: it passes, but the smallest CDR is below Rules.marginal_cdr, or the checks pushed
+  L beyond Rules.marginal_length_ratio*H, or H exceeds Rules.marginal_height_m.
+- clear: otherwise.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass
+
+import numpy as np
+
+from screening.engine.context import CheckValues, ScreenContext
+from screening.engine.result import BoolArray, FloatArray
+from screening.engine.sizing import Sizing
+
+
+@dataclass(frozen=True)
+class Outcome:
+    verdict: list[str]
+    reasons: list[tuple[str, ...]]
+    governing: list[str]
+    min_cdr: FloatArray
+
+
+def _scope(ctx: ScreenContext) -> list[tuple[str, BoolArray, Callable[[int], str]]]:
+    """(key, mask, sentence for segment i) of every out-of-scope rule."""
+    a, r, h = ctx.a, ctx.a.rules, ctx.geom.design_height_m
+    cu = a.found_undrained_kpa
+    arrangement = np.array(a.arrangement, dtype=object)
+    return [
+        ("height", h > r.max_height_m + 1e-9,
+         lambda i: f"design height {h[i]:.1f} m > {r.max_height_m:g} m: outside screening"),
+        ("soft-foundation", ~np.isnan(cu) & (cu < r.min_undrained_strength_kpa),
+         lambda i: f"foundation cu {cu[i]:.0f} kPa < {r.min_undrained_strength_kpa:g} kPa: "
+         "soft foundation, outside screening"),
+        ("fill", a.fill_fines_percent > r.max_fines_percent,
+         lambda i: f"fines {a.fill_fines_percent[i]:.0f} % > {r.max_fines_percent:g} %: "
+         "marginal fill, outside screening"),
+        ("fill", a.fill_plasticity_index > r.max_plasticity_index,
+         lambda i: f"plasticity index {a.fill_plasticity_index[i]:.0f} > "
+         f"{r.max_plasticity_index:g}: marginal fill, outside screening"),
+        ("fill", a.fill_friction_deg < r.min_fill_friction_deg,
+         lambda i: f"fill friction {a.fill_friction_deg[i]:.0f}° < {r.min_fill_friction_deg:g}°: "
+         "marginal fill, outside screening"),
+        ("water", a.water_in_fill,
+         lambda i: "water in the reinforced zone or flooding at the face: outside screening"),
+        ("backslope", a.backslope_deg > r.max_backslope_deg + 1e-9,
+         lambda i: f"backslope {a.backslope_deg[i]:.1f}° steeper than {r.max_backslope_deg:g}° "
+         "(2H:1V): outside screening"),
+        ("seismic", a.seismic_kh > r.max_seismic_kh + 1e-12,
+         lambda i: f"seismic kh {a.seismic_kh[i]:.2f} > {r.max_seismic_kh:g}: outside screening"),
+        ("arrangement", arrangement != "single",
+         lambda i: f"{arrangement[i]} walls: outside screening"),
+    ]  # fmt: skip
+
+
+def decide(
+    ctx: ScreenContext, sizing: Sizing, checks: dict[str, CheckValues], unchecked: set[str]
+) -> Outcome:
+    """Verdict, reasons, governing check and smallest CDR of every segment."""
+    n, r = ctx.n, ctx.a.rules
+    h, length = ctx.geom.design_height_m, sizing.length_m
+    names = [k for k in checks if k not in unchecked]
+    if names:
+        table = np.stack([checks[k].cdr for k in names], axis=1)
+        low = np.argmin(table, axis=1)
+        min_cdr = table[np.arange(n), low]
+        governing = np.array(names, dtype=object)[low]
+    else:
+        min_cdr = np.full(n, np.inf)
+        governing = np.full(n, "", dtype=object)
+    reasons: list[list[str]] = [[] for _ in range(n)]
+    out_of_scope = np.zeros(n, dtype=bool)
+    first_scope = np.full(n, "", dtype=object)
+    for key, mask, words in _scope(ctx):
+        first_scope = np.where(mask & ~out_of_scope, key, first_scope)
+        out_of_scope |= mask
+        for i in np.flatnonzero(mask).tolist():
+            reasons[i].append(words(i))
+
+    ratio_l = length / h
+    failed = np.zeros(n, dtype=bool)
+    for name in names:
+        cdr = checks[name].cdr
+        bad = cdr < 1.0 - 1e-9
+        failed |= bad
+        detail = checks[name].detail
+        for i in np.flatnonzero(bad).tolist():
+            where = f", {detail[i]}" if detail and detail[i] else ""
+            reasons[i].append(
+                f"{name} CDR {cdr[i]:.2f} < 1.0 at L = {length[i]:.1f} m ({ratio_l[i]:.2f}H){where}"
+            )
+    for i in np.flatnonzero(sizing.exhausted).tolist():
+        reasons[i].append(
+            f"no length up to {r.max_screen_length_ratio:g}H passes every check: full design needed"
+        )
+
+    low_cdr = min_cdr < r.marginal_cdr
+    long_l = (length > r.marginal_length_ratio * h + 1e-9) & (length > r.rule_length_min_m + 1e-9)
+    tall = h > r.marginal_height_m + 1e-9
+    refer = out_of_scope | failed | sizing.exhausted
+    for i in np.flatnonzero(low_cdr & ~refer).tolist():
+        reasons[i].append(f"smallest CDR {min_cdr[i]:.2f} ({governing[i]}) < {r.marginal_cdr:g}")
+    for i in np.flatnonzero(long_l).tolist():
+        reasons[i].append(
+            f"L = {length[i]:.1f} m is {ratio_l[i]:.2f}H > {r.marginal_length_ratio:g}H"
+        )
+    for i in np.flatnonzero(tall & ~out_of_scope).tolist():
+        reasons[i].append(f"design height {h[i]:.1f} m > {r.marginal_height_m:g} m")
+    marginal = ~refer & (low_cdr | long_l | tall)
+    clear = ~refer & ~marginal
+    for i in np.flatnonzero(clear).tolist():
+        reasons[i].append(
+            f"every check passes with CDR ≥ {r.marginal_cdr:g} "
+            f"(smallest {min_cdr[i]:.2f}, {governing[i]})"
+        )
+    rule = ctx.geom.rule_length_m
+    lengthened = length > rule + 1e-9
+    for i in np.flatnonzero(lengthened & ~sizing.exhausted).tolist():
+        reasons[i].append(
+            f"L = {length[i]:.1f} m ({ratio_l[i]:.2f}H), lengthened by the checks "
+            f"from the rule-of-thumb {rule[i]:.1f} m"
+        )
+    for i in np.flatnonzero(~lengthened).tolist():
+        reasons[i].append(f"L = {length[i]:.1f} m ({ratio_l[i]:.2f}H) by rule of thumb")
+
+    verdict = np.where(refer, "refer", np.where(marginal, "marginal", "clear")).tolist()
+    governing = np.where(out_of_scope, first_scope, governing).tolist()
+    return Outcome(verdict, [tuple(x) for x in reasons], governing, min_cdr)
