@@ -150,7 +150,7 @@ class SourceMap:
 
     def __init__(self, text: str) -> None:
         self.keys: dict[tuple[str, int, str], tuple[int, int, int]] = {}
-        self.headers: dict[tuple[str, int], int] = {}
+        self.headers: dict[tuple[str, int], int] = {("", 0): 1}
         counts: dict[str, int] = {}
         section, index = "", 0
         fence: str | None = None
@@ -187,6 +187,8 @@ class SourceMap:
         if key is not None and (section, index, key) in self.keys:
             line, kcol, vcol = self.keys[(section, index, key)]
             return line, vcol if at_value else kcol
+        if section == "" and key is not None and (key, 0) in self.headers:
+            return self.headers[(key, 0)], 1
         if (section, index) in self.headers:
             return self.headers[(section, index)], 1
         return None, None
