@@ -1,0 +1,236 @@
+"""Build a corridor from a road profile, and edit many segments at once.
+
+:func:`corridor_from_profile` reads a CSV or LandXML profile (chosen by suffix), splits
+every wall into segments by :func:`screening.profile.split_profile` and gives each
+segment the corridor defaults. :func:`edit_segments` changes fields of the segments a
+selection picks (a wall, a chainage range, ids), returning a new corridor.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import difflib
+from collections.abc import Callable, Iterable
+from pathlib import Path
+from typing import Any
+
+from screening.errors import InputError
+from screening.model import Corridor, Defaults, FactorSet, Rules, Segment
+from screening.profile import ProfileLine, split_profile, wall_code
+
+PROFILE_SUFFIXES = {".csv": "csv", ".txt": "csv", ".xml": "landxml", ".landxml": "landxml"}
+
+
+def read_profile(
+    path: str | Path, *, top_profile: str | None = None, toe_profile: str | None = None
+) -> list[ProfileLine]:
+    """Profile lines from a CSV or LandXML file, chosen by the file suffix."""
+    suffix = Path(path).suffix.lower()
+    kind = PROFILE_SUFFIXES.get(suffix)
+    if kind is None:
+        raise InputError(
+            f"unknown profile type {suffix or '(no suffix)'!r}; use .csv or .xml (LandXML)",
+            file=str(path),
+        )
+    if kind == "csv":
+        from screening.profile_csv import read_profile_csv
+
+        return read_profile_csv(path)
+    from screening.profile_xml import read_profile_xml
+
+    return read_profile_xml(path, top_profile=top_profile, toe_profile=toe_profile)
+
+
+def _check_settings(
+    source: str, max_step_m: float, max_length_m: float, min_height_m: float
+) -> None:
+    for field, value, rule in (
+        ("max_step_m", max_step_m, "a height step > 0 m, e.g. 0.5"),
+        ("max_length_m", max_length_m, "a length > 0 m, e.g. 30"),
+    ):
+        if not value > 0.0:
+            raise InputError(f"{field} = {value:g}: give {rule}", file=source, field=field)
+    if min_height_m < 0.0:
+        raise InputError(
+            f"min_height_m = {min_height_m:g}: give 0 or more", file=source, field="min_height_m"
+        )
+
+
+def segments_from_lines(
+    lines: Iterable[ProfileLine],
+    defaults: Defaults,
+    *,
+    wall_name: str = "Wall",
+    max_step_m: float = 0.5,
+    max_length_m: float = 30.0,
+    breaks: Iterable[float] = (),
+    peak_tolerance_m: float = 0.05,
+    min_height_m: float = 0.0,
+) -> tuple[Segment, ...]:
+    """Segments for every profile line, ids ``<wall code><L|R>-<nn>`` in chainage order."""
+    breaks = tuple(float(b) for b in breaks)
+    spacing = (
+        defaults.spacing_m if defaults.spacing_m is not None else defaults.reinforcement.spacing_m
+    )
+    common = {
+        f.name: getattr(defaults, f.name)
+        for f in dataclasses.fields(Defaults)
+        if f.name != "spacing_m"
+    }
+    codes: dict[str, str] = {}
+    out: list[Segment] = []
+    for line in lines:
+        wall = line.wall or wall_name
+        if wall not in codes:
+            codes[wall] = wall_code(wall, codes.values())
+        prefix = codes[wall] + {"left": "L", "right": "R", "": ""}[line.side]
+        label = f"{wall}, {line.side}" if line.side else wall
+        pieces = split_profile(
+            line.chainage_m,
+            line.height_m,
+            max_step_m=max_step_m,
+            max_length_m=max_length_m,
+            breaks_m=breaks + line.breaks_m,
+            peak_tolerance_m=peak_tolerance_m,
+            min_height_m=min_height_m,
+        )
+        width = max(2, len(str(len(pieces))))
+        for n, (c0, c1, h0, h1) in enumerate(pieces, start=1):
+            out.append(
+                Segment(
+                    id=f"{prefix}-{n:0{width}d}",
+                    wall=label,
+                    chainage_start_m=c0,
+                    chainage_end_m=c1,
+                    height_start_m=h0,
+                    height_end_m=h1,
+                    spacing_m=spacing,
+                    **common,
+                )
+            )
+    return tuple(out)
+
+
+def corridor_from_profile(
+    path: str | Path,
+    *,
+    name: str,
+    defaults: Defaults,
+    factor_set: FactorSet,
+    rules: Rules | None = None,
+    max_step_m: float = 0.5,
+    max_length_m: float = 30.0,
+    breaks: Iterable[float] = (),
+    peak_tolerance_m: float = 0.05,
+    min_height_m: float = 0.0,
+    wall_name: str | None = None,
+    top_profile: str | None = None,
+    toe_profile: str | None = None,
+    design_life_years: float | None = None,
+) -> Corridor:
+    """A new corridor whose segments come from a chainage profile.
+
+    ``path``: ``.csv`` (see :mod:`screening.profile_csv`) or ``.xml`` LandXML (see
+    :mod:`screening.profile_xml`; ``top_profile`` / ``toe_profile`` pick profiles by name).
+    A new segment starts where the exposed height would vary by more than
+    ``max_step_m`` within it, where it would exceed ``max_length_m`` (long runs are cut
+    into equal parts), at every chainage in ``breaks`` and at breaks marked in the
+    profile. Walls without a name in the profile are called ``wall_name`` (default: the
+    corridor ``name``). Every segment takes ``defaults``; edit them afterwards with
+    :func:`edit_segments`.
+    """
+    source = str(path)
+    _check_settings(source, max_step_m, max_length_m, min_height_m)
+    lines = read_profile(path, top_profile=top_profile, toe_profile=toe_profile)
+    segments = segments_from_lines(
+        lines,
+        defaults,
+        wall_name=wall_name or name,
+        max_step_m=max_step_m,
+        max_length_m=max_length_m,
+        breaks=breaks,
+        peak_tolerance_m=peak_tolerance_m,
+        min_height_m=min_height_m,
+    )
+    if not segments:
+        raise InputError(
+            f"the profile has no stretch of wall higher than {min_height_m:g} m", file=source
+        )
+    return Corridor(
+        name=name,
+        factor_set=factor_set,
+        defaults=defaults,
+        segments=segments,
+        rules=rules if rules is not None else Rules(),
+        design_life_years=design_life_years,
+        note=f"Segments made from the profile {Path(path).name}: new segment at a height "
+        f"change over {max_step_m:g} m or a length of {max_length_m:g} m.",
+    )
+
+
+# ------------------------------------------------------------------ bulk edits
+
+EDITABLE = tuple(
+    f.name
+    for f in dataclasses.fields(Segment)
+    if f.name not in ("id", "chainage_start_m", "chainage_end_m", "height_start_m", "height_end_m")
+)
+"""Segment fields a bulk edit may set (geometry and ids are edited one segment at a time)."""
+
+
+def select_segments(
+    corridor: Corridor,
+    *,
+    ids: Iterable[str] | None = None,
+    wall: str | None = None,
+    chainage_from_m: float | None = None,
+    chainage_to_m: float | None = None,
+    where: Callable[[Segment], bool] | None = None,
+) -> list[int]:
+    """Indices of the segments matching every given criterion.
+
+    A chainage range picks segments that overlap it; ``where`` is any test on a segment.
+    """
+    wanted = set(ids) if ids is not None else None
+    if wanted is not None:
+        known = {s.id for s in corridor.segments}
+        for missing in sorted(wanted - known):
+            near = difflib.get_close_matches(missing, sorted(known), n=1)
+            hint = f" (did you mean {near[0]!r}?)" if near else ""
+            raise InputError(f"no segment with this id{hint}", segment=missing, field="id")
+    picked = []
+    for i, seg in enumerate(corridor.segments):
+        if wanted is not None and seg.id not in wanted:
+            continue
+        if wall is not None and seg.wall != wall:
+            continue
+        if chainage_from_m is not None and seg.chainage_end_m <= chainage_from_m:
+            continue
+        if chainage_to_m is not None and seg.chainage_start_m >= chainage_to_m:
+            continue
+        if where is not None and not where(seg):
+            continue
+        picked.append(i)
+    return picked
+
+
+def edit_segments(corridor: Corridor, indices: Iterable[int], **changes: Any) -> Corridor:
+    """A new corridor with ``changes`` (field=value) applied to the chosen segments.
+
+    Field names are checked (with a "did you mean"); values are not: the store validates
+    a corridor when it is saved or loaded, the same way as a hand-written file.
+    """
+    for key in changes:
+        if key not in EDITABLE:
+            near = difflib.get_close_matches(key, EDITABLE, n=1)
+            hint = f" (did you mean {near[0]!r}?)" if near else ""
+            raise InputError(
+                f"cannot set {key!r} on many segments at once{hint}; settable: {', '.join(EDITABLE)}",
+                field=key,
+            )
+    chosen = set(indices)
+    segments = tuple(
+        dataclasses.replace(seg, **changes) if i in chosen else seg
+        for i, seg in enumerate(corridor.segments)
+    )
+    return dataclasses.replace(corridor, segments=segments)
