@@ -16,7 +16,7 @@ from typing import Any
 
 from screening.errors import InputError
 from screening.model import Corridor, Defaults, FactorSet, Rules, Segment
-from screening.profile import ProfileLine, split_profile, wall_code
+from screening.profile import Piece, ProfileLine, split_profile, wall_code
 
 PROFILE_SUFFIXES = {".csv": "csv", ".txt": "csv", ".xml": "landxml", ".landxml": "landxml"}
 
@@ -56,6 +56,36 @@ def _check_settings(
         )
 
 
+def join_low_pieces(pieces: list[Piece], spacing_m: float) -> tuple[list[Piece], list[Piece]]:
+    """Join every piece lower than one layer spacing to a neighbour it touches.
+
+    A segment must be at least one spacing high to hold a layer; where a wall tapers
+    out, its last low piece joins the taller piece next to it, which is screened at its
+    taller end (so the join is on the safe side). A low stretch touching no other piece
+    cannot be a reinforced-soil wall and is returned as dropped.
+    """
+    out = list(pieces)
+    dropped: list[Piece] = []
+    k = 0
+    while k < len(out):
+        c0, c1, h0, h1 = out[k]
+        if max(h0, h1) >= spacing_m:
+            k += 1
+            continue
+        before = k > 0 and out[k - 1][1] == c0
+        after = k + 1 < len(out) and out[k + 1][0] == c1
+        if after and (not before or max(out[k + 1][2:]) >= max(out[k - 1][2:])):
+            nxt = out.pop(k + 1)
+            out[k] = (c0, nxt[1], h0, nxt[3])
+        elif before:
+            prev = out.pop(k - 1)
+            k -= 1
+            out[k] = (prev[0], c1, prev[2], h1)
+        else:
+            dropped.append(out.pop(k))
+    return out, dropped
+
+
 def segments_from_lines(
     lines: Iterable[ProfileLine],
     defaults: Defaults,
@@ -66,8 +96,12 @@ def segments_from_lines(
     breaks: Iterable[float] = (),
     peak_tolerance_m: float = 0.05,
     min_height_m: float = 0.0,
+    notes: list[str] | None = None,
 ) -> tuple[Segment, ...]:
-    """Segments for every profile line, ids ``<wall code><L|R>-<nn>`` in chainage order."""
+    """Segments for every profile line, ids ``<wall code><L|R>-<nn>`` in chainage order.
+
+    What was left out (stretches too low to hold one layer) is appended to ``notes``.
+    """
     breaks = tuple(float(b) for b in breaks)
     spacing = (
         defaults.spacing_m if defaults.spacing_m is not None else defaults.reinforcement.spacing_m
@@ -79,6 +113,7 @@ def segments_from_lines(
     }
     codes: dict[str, str] = {}
     out: list[Segment] = []
+    notes: list[str] = [] if notes is None else notes
     for line in lines:
         wall = line.wall or wall_name
         if wall not in codes:
@@ -94,6 +129,13 @@ def segments_from_lines(
             peak_tolerance_m=peak_tolerance_m,
             min_height_m=min_height_m,
         )
+        pieces, dropped = join_low_pieces(pieces, spacing)
+        if dropped:
+            notes.append(
+                f"{label}: left out {len(dropped)} stretch(es) lower than one layer spacing "
+                f"({spacing:g} m) at chainage "
+                + ", ".join(f"{c0:g}-{c1:g}" for c0, c1, _, _ in dropped)
+            )
         width = max(2, len(str(len(pieces))))
         for n, (c0, c1, h0, h1) in enumerate(pieces, start=1):
             out.append(
@@ -111,12 +153,53 @@ def segments_from_lines(
     return tuple(out)
 
 
+NEW_FILL = "granular-wellgraded"
+NEW_REINFORCEMENT = "steel-strip"
+NEW_FACTOR_SET = "aashto-lrfd"
+"""Preset ids a corridor made from a profile starts with when the caller gives none."""
+
+
+def starting_defaults() -> Defaults:
+    """``[defaults]`` for a new corridor: select granular fill, steel strips, firm ground.
+
+    A starting point to edit, not a recommendation: the report and the file say so.
+    """
+    from screening.model import Foundation, Soil
+    from screening.presets import load_presets
+
+    presets = load_presets()
+    return Defaults(
+        fill=presets.fills[NEW_FILL],
+        retained=Soil(),
+        foundation=Foundation(),
+        reinforcement=presets.reinforcement[NEW_REINFORCEMENT],
+    )
+
+
+def _factor_set(factor_set: FactorSet | None, factor_set_id: str | None) -> FactorSet:
+    if factor_set is not None:
+        return factor_set
+    from screening.presets import load_presets
+
+    sets = load_presets().factor_sets
+    wanted = factor_set_id or NEW_FACTOR_SET
+    if wanted not in sets:
+        near = difflib.get_close_matches(wanted, sorted(sets), n=1)
+        hint = f" (did you mean {near[0]!r}?)" if near else ""
+        raise InputError(
+            f"unknown factor set {wanted!r}{hint}; valid: {', '.join(sorted(sets))}",
+            field="factor_set",
+        )
+    return sets[wanted]
+
+
 def corridor_from_profile(
     path: str | Path,
     *,
     name: str,
-    defaults: Defaults,
-    factor_set: FactorSet,
+    defaults: Defaults | None = None,
+    factor_set: FactorSet | None = None,
+    factor_set_id: str | None = None,
     rules: Rules | None = None,
     max_step_m: float = 0.5,
     max_length_m: float = 30.0,
@@ -136,12 +219,21 @@ def corridor_from_profile(
     ``max_step_m`` within it, where it would exceed ``max_length_m`` (long runs are cut
     into equal parts), at every chainage in ``breaks`` and at breaks marked in the
     profile. Walls without a name in the profile are called ``wall_name`` (default: the
-    corridor ``name``). Every segment takes ``defaults``; edit them afterwards with
-    :func:`edit_segments`.
+    corridor ``name``). Every segment takes ``defaults`` (None: :func:`starting_defaults`);
+    edit them afterwards with :func:`edit_segments`. ``factor_set`` (or the preset
+    ``factor_set_id``; neither: aashto-lrfd) and ``rules`` (None: the rules preset).
     """
     source = str(path)
     _check_settings(source, max_step_m, max_length_m, min_height_m)
+    factor_set = _factor_set(factor_set, factor_set_id)
+    if defaults is None:
+        defaults = starting_defaults()
+    if rules is None:
+        from screening.presets import load_presets
+
+        rules = load_presets().rules
     lines = read_profile(path, top_profile=top_profile, toe_profile=toe_profile)
+    notes: list[str] = []
     segments = segments_from_lines(
         lines,
         defaults,
@@ -151,6 +243,7 @@ def corridor_from_profile(
         breaks=breaks,
         peak_tolerance_m=peak_tolerance_m,
         min_height_m=min_height_m,
+        notes=notes,
     )
     if not segments:
         raise InputError(
@@ -161,10 +254,15 @@ def corridor_from_profile(
         factor_set=factor_set,
         defaults=defaults,
         segments=segments,
-        rules=rules if rules is not None else Rules(),
+        rules=rules,
         design_life_years=design_life_years,
-        note=f"Segments made from the profile {Path(path).name}: new segment at a height "
-        f"change over {max_step_m:g} m or a length of {max_length_m:g} m.",
+        note=" ".join(
+            [
+                f"Segments made from the profile {Path(path).name}: new segment at a height "
+                f"change over {max_step_m:g} m or a length of {max_length_m:g} m.",
+                *(n + "." for n in notes),
+            ]
+        ),
     )
 
 

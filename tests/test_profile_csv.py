@@ -11,7 +11,13 @@ from pathlib import Path
 
 import pytest
 
-from screening.corridor import corridor_from_profile, edit_segments, select_segments
+from screening import store
+from screening.corridor import (
+    corridor_from_profile,
+    edit_segments,
+    join_low_pieces,
+    select_segments,
+)
 from screening.errors import InputError
 from screening.model import (
     Defaults,
@@ -111,11 +117,12 @@ def test_two_walls_with_sides_from_levels():
         for s in by_wall["North ramp, right"]
     ] == [(500.0, 520.0, 2.5, 2.5), (520.0, 540.0, 3.5, 3.5)]
     # W2: no wall (height 0) from 10 to 20, then 0 -> 1.5 m over 20..30 (three 0.5 m steps
-    # of 3.333 m), then 1.5 m to 40
+    # of 3.333 m), then 1.5 m to 40; the first piece (0 -> 0.5 m) is lower than one layer
+    # spacing (0.75 m) and joins the piece after it
     w2 = by_wall["W2"]
-    assert [s.id for s in w2] == ["W2-01", "W2-02", "W2-03", "W2-04"]
-    assert [s.chainage_start_m for s in w2] == [20.0, 23.333, 26.667, 30.0]
-    assert [s.height_end_m for s in w2] == [0.5, 1.0, 1.5, 1.5]
+    assert [s.id for s in w2] == ["W2-01", "W2-02", "W2-03"]
+    assert [s.chainage_start_m for s in w2] == [20.0, 26.667, 30.0]
+    assert [s.height_end_m for s in w2] == [1.0, 1.5, 1.5]
 
 
 def test_semicolons_decimal_commas_kilometre_chainage_and_break_column():
@@ -215,3 +222,25 @@ def test_bulk_edit_refuses_unknown_fields_and_ids():
         edit_segments(c, [0], height_start_m=5.0)
     with pytest.raises(InputError, match="did you mean 'TEST-01'"):
         select_segments(c, ids=["T-1"])
+
+
+def test_low_pieces_join_a_neighbour_or_are_left_out():
+    pieces = [(0.0, 5.0, 0.0, 0.4), (5.0, 10.0, 0.4, 1.2), (20.0, 30.0, 0.3, 0.3)]
+    kept, dropped = join_low_pieces(pieces, 0.75)
+    assert kept == [(0.0, 10.0, 0.0, 1.2)]
+    assert dropped == [(20.0, 30.0, 0.3, 0.3)]
+
+
+def test_a_profile_corridor_saves_and_loads_back_unchanged(tmp_path):
+    """The corridor file written from a profile is a valid file (store round trip)."""
+    c = corridor_from_profile(DATA / "two_walls_levels.csv", name="Round trip", factor_set_id="asd")
+    path = tmp_path / "new.toml"
+    store.save(path, c)
+    assert store.load(path) == c
+    assert c.factor_set.id == "asd"
+    assert c.defaults.fill.id == "granular-wellgraded"
+
+
+def test_unknown_factor_set_id_is_an_input_error():
+    with pytest.raises(InputError, match="unknown factor set 'asdd' \\(did you mean 'asd'\\?\\)"):
+        corridor_from_profile(DATA / "ramp.csv", name="x", factor_set_id="asdd")
