@@ -26,6 +26,11 @@ def ceil_step(value_m: FloatArray, step_m: float) -> FloatArray:
     return np.round(np.ceil(np.asarray(value_m) / step_m - 1e-9) * step_m, 10)
 
 
+def floor_step(value_m: FloatArray, step_m: float) -> FloatArray:
+    """Round down to a multiple of ``step_m`` (a value already on the grid stays)."""
+    return np.round(np.floor(np.asarray(value_m) / step_m + 1e-9) * step_m, 10)
+
+
 def embedment_ratio(toe_slope_deg: FloatArray, abutment: BoolArray) -> FloatArray:
     """k in d = k*H, from the toe slope and the structure (table in the module docstring)."""
     t = toe_slope_deg
@@ -71,7 +76,8 @@ class Geometry:
     rule_length_m: FloatArray
     """max(ratio*H, minimum), rounded up to the length step."""
     max_length_m: FloatArray
-    """Longest length screening tries: max(rule length, max_screen_length_ratio*H) on the step."""
+    """Longest length screening tries: the longest step not beyond max_screen_length_ratio*H
+    (or the rule length when that is longer)."""
     layer_count: IntArray
     layer_depth_m: FloatArray
     """Depth below the top of the reinforced zone; 0 on padding."""
@@ -103,6 +109,6 @@ def build_geometry(a: SegmentArrays) -> Geometry:
     rule = ceil_step(
         np.maximum(rule_length_ratio(a.backslope_deg, rules) * h, rules.rule_length_min_m), step
     )
-    longest = np.maximum(rule, ceil_step(rules.max_screen_length_ratio * h, step))
+    longest = np.maximum(rule, floor_step(rules.max_screen_length_ratio * h, step))
     count, depth, mask = layer_layout(h, a.spacing_m)
     return Geometry(h, d, k, rule, longest, count, depth, mask)
