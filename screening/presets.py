@@ -63,24 +63,42 @@ def demo_corridor_path() -> Path:
     return Path(str(presets_root() / DEMO_CORRIDOR))
 
 
+FRIENDLY = {
+    "Illegal character '\\n'": "a line ends inside a string: is a closing quote missing?",
+    "Invalid value": (
+        'not a valid value: text needs quotes ("..."), numbers a dot (1.5), '
+        "true/false are lower case"
+    ),
+    "Unclosed array": "an array [ ... ] is not closed with ]",
+    "Unclosed inline table": "an inline table { ... } must close with } on the same line",
+}
+"""tomllib messages that read better in our words."""
+
+
 def parse_toml(text: str, source: str) -> dict[str, Any]:
-    """``tomllib.loads`` with its error turned into ``file:line:column: message``."""
+    """``tomllib.loads`` with its error turned into ``file:line:column: TOML syntax: ...``."""
     try:
         return tomllib.loads(text)
     except tomllib.TOMLDecodeError as err:
         msg = str(err)
+        line: int | None = text.count("\n") + 1
+        column: int | None = None
         m = re.search(r"\s*\(at line (\d+), column (\d+)\)$", msg)
         if m:
-            return _raise(msg[: m.start()], source, int(m.group(1)), int(m.group(2)))
-        m = re.search(r"\s*\(at end of document\)$", msg)
-        line = text.count("\n") + 1
-        return _raise(msg[: m.start()] if m else msg, source, line, None)
-
-
-def _raise(msg: str, source: str, line: int, column: int | None):
-    raise InputError(
-        f"TOML syntax: {msg[:1].lower()}{msg[1:]}", file=source, line=line, column=column
-    ) from None
+            line, column = int(m.group(1)), int(m.group(2))
+        m = m or re.search(r"\s*\(at end of document\)$", msg)
+        msg = msg[: m.start()] if m else msg
+        if msg.startswith(("Cannot overwrite", "Cannot declare")):
+            repeat = SourceMap(text).repeats[:1]
+            if repeat:
+                name, line, column, first = repeat[0]
+                msg = f"{name} is given twice (first on line {first})"
+        lines = text.splitlines()
+        here = lines[line - 1] if line is not None and 0 < line <= len(lines) else ""
+        if here.count("{") > here.count("}"):
+            msg = "Unclosed inline table"
+        msg = FRIENDLY.get(msg, msg[:1].lower() + msg[1:])
+        raise InputError(f"TOML syntax: {msg}", file=source, line=line, column=column) from None
 
 
 def read_text(path: Path | Traversable, source: str | None = None) -> str:

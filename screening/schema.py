@@ -151,7 +151,11 @@ class SourceMap:
     def __init__(self, text: str) -> None:
         self.keys: dict[tuple[str, int, str], tuple[int, int, int]] = {}
         self.headers: dict[tuple[str, int], int] = {("", 0): 1}
+        self.repeats: list[tuple[str, int, int, int]] = []
+        """Keys or tables given twice: (words naming it, line, column, first line)."""
         counts: dict[str, int] = {}
+        declared: dict[str, int] = {}  # [table] -> line, forgotten when its [[parent]] repeats
+        block: dict[str, int] = {}  # key -> line, within the current header
         section, index = "", 0
         fence: str | None = None
         for lineno, line in enumerate(text.splitlines(), start=1):
@@ -162,19 +166,28 @@ class SourceMap:
             head = _HEADER.match(line)
             if head:
                 section = ".".join(p.strip().strip("\"'") for p in head.group(2).split("."))
+                block = {}
                 if head.group(1) == "[[":
                     index = counts.get(section, 0)
                     counts[section] = index + 1
+                    for path in [p for p in declared if p.startswith(section + ".")]:
+                        del declared[path]
                 else:
                     index = 0
+                    if section in declared:
+                        what = f"the table [{section}]"
+                        self.repeats.append((what, lineno, 1, declared[section]))
+                    declared.setdefault(section, lineno)
                 self.headers.setdefault((section, index), lineno)
                 continue
             key = _KEY.match(line)
             if key:
                 name = key.group(2).strip("\"'")
-                self.keys.setdefault(
-                    (section, index, name), (lineno, len(key.group(1)) + 1, key.end() + 1)
-                )
+                col = len(key.group(1)) + 1
+                if name in block:
+                    self.repeats.append((f'the key "{name}"', lineno, col, block[name]))
+                block.setdefault(name, lineno)
+                self.keys.setdefault((section, index, name), (lineno, col, key.end() + 1))
                 rest = line[key.end() :]
                 for q in ('"""', "'''"):
                     if rest.count(q) % 2 == 1:
