@@ -51,7 +51,17 @@ from screening.validate import (
     resolve,
 )
 
-__all__ = ["SEGMENT_FIELDS", "coerce_field", "check_segment", "load", "loads", "save", "dumps"]
+__all__ = [
+    "SEGMENT_FIELDS",
+    "StoredScreen",
+    "check_segment",
+    "coerce_field",
+    "dumps",
+    "load",
+    "loads",
+    "save",
+    "stored_screen",
+]
 
 TOP_KEYS = ("schema", "screen", "corridor", "defaults", "rules", "segment")
 CORRIDOR_KEYS = ("name", "factor_set", "design_life_years", "note")
@@ -171,6 +181,32 @@ def _segment(
 
 def _default_spacing(defaults: model.Defaults, reinforcement: model.Reinforcement) -> float:
     return defaults.spacing_m if defaults.spacing_m is not None else reinforcement.spacing_m
+
+
+@dataclasses.dataclass(frozen=True)
+class StoredScreen:
+    """The outcome a file carries from its last save (never an input)."""
+
+    screen: dict[str, Any]
+    """The [screen] table: engine_version, factor_set, date, counts."""
+    results: dict[str, dict[str, Any]]
+    """Each segment's [segment.result] table, by segment id."""
+
+
+def stored_screen(text: str, source: str = "<input>") -> StoredScreen | None:
+    """The results written in a corridor file, to compare with a fresh screen; None when
+    the file has no [screen] table. Only the TOML syntax is checked here."""
+    doc = parse_toml(text, source)
+    if not isinstance(doc.get("screen"), dict):
+        return None
+    results = {
+        seg["id"]: seg["result"]
+        for seg in doc.get("segment", [])
+        if isinstance(seg, dict)
+        and isinstance(seg.get("id"), str)
+        and isinstance(seg.get("result"), dict)
+    }
+    return StoredScreen(doc["screen"], results)
 
 
 # ------------------------------------------------------------------ writing

@@ -184,6 +184,10 @@ def test_results_written_and_ignored_on_load(presets) -> None:
         assert res["length_m"] == pytest.approx(float(result.length_m[i]), abs=0.005)
         assert res["min_cdr"] == pytest.approx(float(result.min_cdr[i]), abs=5e-4)
         assert set(res) >= {"verdict", "governing", "length_m", "length_ratio", "min_cdr"}
+    stored = store.stored_screen(text)
+    assert stored is not None and stored.screen["factor_set"] == "aashto-lrfd"
+    assert [stored.results[s.id]["verdict"] for s in corridor.segments] == result.verdict
+    assert store.stored_screen(store.dumps(corridor, presets=presets)) is None
     # results never feed back into inputs
     assert store.loads(text, "x", presets) == corridor
     tampered = text.replace('verdict = "refer"', 'verdict = "clear"')
