@@ -26,8 +26,8 @@ COLUMNS: tuple[tuple[str, str, int], ...] = (
     ("governing", "Governs", 12),
     ("cdr", "min CDR", 7),
     ("verdict", "Verdict", 10),
-    ("fill", "Fill", 14),
-    ("reinforcement", "Reinforcement", 14),
+    ("fill", "Fill", 20),
+    ("reinforcement", "Reinforcement", 15),
     ("traffic", "Traffic", 9),
 )
 """(key, heading, width) of the corridor table, left to right."""

@@ -18,8 +18,8 @@ from pathlib import Path
 from screening import engine, store
 from screening.engine.result import CorridorResult
 from screening.errors import InputError
+from screening.location import Where
 from screening.model import Corridor, Segment
-from screening.schema import Where
 from screening.tui.fields import parse_value, with_value
 from screening.validate import check_corridor, check_segment
 
@@ -68,11 +68,18 @@ def lettered_id(base: str, taken: set[str]) -> str:
     return f"{base}-{n}"
 
 
+def chainage_order(segments: tuple[Segment, ...]) -> tuple[Segment, ...]:
+    """Segments by start chainage, then wall (stable: equal keys keep the file's order)."""
+    return tuple(sorted(segments, key=lambda s: (s.chainage_start_m, s.wall)))
+
+
 class Session:
     """One open corridor."""
 
     def __init__(self, corridor: Corridor, path: Path | None, presets: object) -> None:
+        corridor = dataclasses.replace(corridor, segments=chainage_order(corridor.segments))
         self.corridor = corridor
+        """Inputs, in chainage order from the moment the file is opened."""
         self.result: CorridorResult | None = None
         self.path = path
         """File it was read from and saves to; None for the unsaved demo copy."""
@@ -264,7 +271,7 @@ class Session:
 
     def sort_by_chainage(self) -> Change:
         """Order the segments by start chainage, then by wall."""
-        order = sorted(self.corridor.segments, key=lambda s: (s.chainage_start_m, s.wall, s.id))
+        order = list(chainage_order(self.corridor.segments))
         return self._structural("put in chainage order", order, 0)
 
     def set_factor_set(self, factor_set_id: str) -> Change:

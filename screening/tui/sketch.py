@@ -108,6 +108,9 @@ def draw_section(segment: Segment, res: SegmentResult, width: int = 64, height: 
     def col(x: float) -> int:
         return round((x - x_min) / sx)
 
+    used_rows = round((y_max - y_min) / sy) + 2
+    top_rows += max((height - top_rows - used_rows) // 2, 0)  # centre vertically
+
     def row(y: float) -> int:
         return top_rows + round((y_max - y) / sy)
 
@@ -118,12 +121,12 @@ def draw_section(segment: Segment, res: SegmentResult, width: int = 64, height: 
     for c in range(face, width):
         x = (c - face) * sx
         y = h + min(math.tan(beta) * x, rise)
-        cv.put(c, row(y), "╱" if beta > 0 and math.tan(beta) * x < rise else "─", STYLES["ground"])
+        cv.put(c, row(y), "╱" if beta > 0 and math.tan(beta) * x < rise else "━", STYLES["ground"])
     # ground in front of the toe, falling away on a toe slope
     for c in range(0, face):
         x = (c - face) * sx
         y = d + math.tan(toe) * x
-        cv.put(c, row(y), "╲" if toe > 0 else "─", STYLES["ground"])
+        cv.put(c, row(y), "╲" if toe > 0 else "━", STYLES["ground"])
 
     # reinforced zone: back boundary, pad, layers
     back = col(length)
@@ -161,7 +164,8 @@ def draw_section(segment: Segment, res: SegmentResult, width: int = 64, height: 
         for c in range(start, min(width, back + (back - face) // 3 + 1), 2):
             y_top = h + min(math.tan(beta) * (c - face) * sx, rise)
             cv.put(c, row(y_top) - 1, "↓", STYLES["load"])
-        cv.write(start, 0, " + ".join(words), STYLES["load"])
+        y_label = h + min(math.tan(beta) * (start - face) * sx, rise)
+        cv.write(start, max(row(y_label) - 3, 0), " + ".join(words), STYLES["load"])
 
     # dimensions
     cv.write(back + 2, row(h * 0.5), f"L {res.length_m:.1f} m", STYLES["label"])

@@ -21,6 +21,46 @@ RANK = {"clear": 0, "marginal": 1, "refer": 2}
 NAMES = ("clear", "marginal", "refer")
 
 
+GAP = 3
+"""Columns left between stretches of the corridor with no wall (a long gap is not drawn to scale)."""
+
+
+def column_chainages(start: np.ndarray, end: np.ndarray, width: int) -> tuple[np.ndarray, list]:
+    """Chainage at the centre of each column (NaN in the gaps between walls) and
+    ``(column, chainage)`` where each stretch of wall begins.
+
+    Overlapping or touching segments form one stretch; stretches are drawn to one scale
+    side by side with a gap of ``GAP`` columns, so a ramp far from the bridge approaches
+    does not leave most of the strip empty.
+    """
+    order = np.argsort(start)
+    blocks: list[list[float]] = []
+    for a, b in zip(start[order], end[order], strict=True):
+        if blocks and a <= blocks[-1][1] + 1e-9:
+            blocks[-1][1] = max(blocks[-1][1], b)
+        else:
+            blocks.append([float(a), float(b)])
+    usable = width - GAP * (len(blocks) - 1)
+    if usable < 2 * len(blocks):  # too many stretches: one scale for the whole corridor
+        blocks = [[float(start.min()), float(end.max())]]
+        usable = width
+    total = sum(b - a for a, b in blocks) or 1.0
+    x = np.full(width, np.nan)
+    starts = []
+    col = 0
+    for k, (a, b) in enumerate(blocks):
+        n = max(int(round((b - a) / total * usable)), 1)
+        if k == len(blocks) - 1:
+            n = max(width - col, 1)
+        n = min(n, width - col)
+        x[col : col + n] = a + (np.arange(n) + 0.5) * (b - a) / n
+        starts.append((col, a))
+        col += n + GAP
+        if col >= width:
+            break
+    return x, starts
+
+
 def section_text(
     corridor: Corridor, result: CorridorResult | None, cursor: int, width: int, height: int
 ) -> Text:
@@ -33,13 +73,15 @@ def section_text(
     end = np.array([s.chainage_end_m for s in segs])
     h0 = np.array([s.height_start_m for s in segs])
     h1 = np.array([s.height_end_m for s in segs])
-    lo, hi = float(start.min()), float(end.max())
-    span = max(hi - lo, 1e-6)
-    x = lo + (np.arange(width) + 0.5) * span / width  # chainage at the centre of each column
+    x, starts = column_chainages(start, end, width)
     inside = (start[:, None] <= x[None, :]) & (x[None, :] <= end[:, None])
-    # columns narrower than a segment: make sure every segment owns at least its middle column
-    mid_col = np.clip(((start + end) / 2 - lo) / span * width, 0, width - 1).astype(int)
-    inside[np.arange(len(segs)), mid_col] = True
+    # a segment narrower than a column still owns the column nearest its middle
+    middle = (start + end) / 2
+    gap = np.isnan(x)
+    nearest = np.argmin(
+        np.where(gap[None, :], np.inf, np.abs(x[None, :] - middle[:, None])), axis=1
+    )
+    inside[np.arange(len(segs)), nearest] = True
     t = np.clip((x[None, :] - start[:, None]) / np.maximum(end - start, 1e-9)[:, None], 0, 1)
     h = np.where(inside, h0[:, None] + t * (h1 - h0)[:, None], 0.0)
     col_h = h.max(axis=0)
@@ -84,9 +126,17 @@ def section_text(
         caret[at : at + len(label)] = list(label)
     out.append("".join(caret), style="bold")
     out.append("\n")
-    left, right = f"{lo:.0f} m", f"{hi:.0f} m  max {top:.1f} m"
-    axis = left + " " * max(width - len(left) - len(right), 1) + right
-    out.append(axis[:width], style="dim")
+    axis = [" "] * width
+    for c in np.flatnonzero(gap):
+        axis[c] = "┆"
+    for c, chainage in starts:
+        label = f"{chainage:.0f}"
+        if all(ch == " " for ch in axis[c : c + len(label) + 1]) and c + len(label) <= width:
+            axis[c : c + len(label)] = list(label)
+    tail = f"{float(end.max()):.0f} m · max {top:.1f} m"
+    if all(ch == " " for ch in axis[width - len(tail) - 1 :]):
+        axis[width - len(tail) :] = list(tail)
+    out.append("".join(axis), style="dim")
     return out
 
 

@@ -1,0 +1,372 @@
+"""The terminal interface driven by keys, as a user would, checked on state and on what
+is drawn. Each screen the interface shows is compared with an independent full run of
+``engine.screen`` on the same inputs, so a wrong re-screen or a stale row fails."""
+
+from __future__ import annotations
+
+import io
+from pathlib import Path
+
+from rich.console import Console
+
+from screening import engine, store
+from screening.tui.cells import COLUMNS, VERDICT_MARK
+from screening.tui.screens.choose import ChooseScreen
+from screening.tui.screens.detail import DetailScreen
+from screening.tui.screens.prompt import PromptScreen
+from screening.tui.screens.unsaved import UnsavedScreen
+from screening.tui.widgets.cross_section import CrossSection
+from screening.tui.widgets.summary_bar import SummaryBar
+
+from .conftest import make_app
+
+SIZE = (160, 45)
+
+
+def plain(renderable) -> str:
+    """A Rich renderable as plain text, 150 columns wide."""
+    console = Console(width=150, record=True, file=io.StringIO())
+    console.print(renderable)
+    return console.export_text()
+
+
+COL = {key: i for i, (key, _, _) in enumerate(COLUMNS)}
+
+
+def drawn(app, row: int, key: str) -> str:
+    """Text of one cell of the corridor table as drawn."""
+    return app.corridor_screen.table.get_row_at(row)[COL[key]].plain
+
+
+def summary(app) -> str:
+    return app.corridor_screen.query_one(SummaryBar).content.plain
+
+
+def assert_rows_match_fresh_screen(app) -> None:
+    """Every row and the summary agree with a fresh screen of the session's inputs."""
+    corridor = app.corridor_screen.session.corridor
+    fresh = engine.screen(corridor)
+    for i in range(len(corridor.segments)):
+        assert drawn(app, i, "id") == corridor.segments[i].id
+        assert drawn(app, i, "verdict") == f"{VERDICT_MARK[fresh.verdict[i]]} {fresh.verdict[i]}"
+        assert drawn(app, i, "length") == f"{fresh.length_m[i]:.1f}"
+        assert drawn(app, i, "cdr") == f"{fresh.min_cdr[i]:.2f}"
+    for verdict, count in fresh.counts().items():
+        assert f"{VERDICT_MARK[verdict]} {verdict} {count}" in summary(app)
+    assert f"{len(corridor.segments)} segments" in summary(app)
+
+
+async def open_editor_at(pilot, app, row: int, field_tabs: int) -> None:
+    for _ in range(row):
+        await pilot.press("down")
+    await pilot.press("e")
+    await pilot.pause()
+    for _ in range(field_tabs):
+        await pilot.press("tab")
+
+
+async def test_edit_height_updates_row_and_summary_then_save_and_reopen(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        row = 3
+        before = screen.session.corridor.segments[row]
+        await open_editor_at(pilot, app, row, 6)
+        assert app.focused.id == "field-height_end_m"
+        await pilot.press("home", "ctrl+k", *"9.5")
+        await pilot.pause()
+        after = screen.session.corridor.segments[row]
+        assert after.id == before.id and after.height_end_m == 9.5
+        assert drawn(app, row, "heights").endswith("→9.5")
+        assert_rows_match_fresh_screen(app)
+        assert screen.session.dirty
+        await pilot.press("enter", "ctrl+s")
+        await pilot.pause()
+        assert not screen.session.dirty
+    reopened = store.load(corridor_file)
+    by_id = {s.id: s for s in reopened.segments}
+    assert by_id[before.id].height_end_m == 9.5
+    assert corridor_file.with_name(corridor_file.name + ".bak").exists()
+
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        rows = [s.id for s in app.corridor_screen.session.corridor.segments]
+        assert drawn(app, rows.index(before.id), "heights").endswith("→9.5")
+
+
+async def test_invalid_value_is_refused_with_its_reason(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        corridor = screen.session.corridor
+        await open_editor_at(pilot, app, 2, 5)
+        assert app.focused.id == "field-height_start_m"
+        await pilot.press("home", "ctrl+k", *"abc")
+        await pilot.pause()
+        assert "expected a number" in screen.editor.problems["height_start_m"]
+        assert app.focused.has_class("refused")
+        assert screen.session.corridor is corridor  # nothing applied
+        await pilot.press("home", "ctrl+k", *"-3")
+        await pilot.pause()
+        assert screen.editor.problems["height_start_m"]  # the store's range check
+        assert screen.session.corridor is corridor
+        # a valid value clears the reason and is applied
+        await pilot.press("home", "ctrl+k", "4")
+        await pilot.pause()
+        assert "height_start_m" not in screen.editor.problems
+        assert screen.session.corridor.segments[2].height_start_m == 4.0
+
+
+async def test_chainage_end_before_start_is_refused(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        seg = screen.session.corridor.segments[0]
+        await open_editor_at(pilot, app, 0, 4)
+        assert app.focused.id == "field-chainage_end_m"
+        await pilot.press("home", "ctrl+k", *f"{seg.chainage_start_m - 5:g}")
+        await pilot.pause()
+        assert "greater than" in screen.editor.problems["chainage_end_m"]
+        assert screen.session.corridor.segments[0] is seg
+
+
+async def test_bulk_edit_of_a_marked_range(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        before = screen.session.corridor.segments
+        await pilot.press("down", "space", "down", "down", "down", "b")
+        await pilot.pause()
+        chooser = app.screen
+        assert isinstance(chooser, ChooseScreen)
+        options = chooser.query_one("#choices")
+        options.highlighted = [v for v, _ in chooser.options].index("traffic")
+        await pilot.press("enter")
+        await pilot.pause()
+        assert isinstance(app.screen, PromptScreen)
+        await pilot.press("home", "ctrl+k", *"12.5", "enter")
+        await pilot.pause()
+        after = screen.session.corridor.segments
+        assert [s.traffic for s in after[1:5]] == [12.5] * 4
+        assert after[0] is before[0] and after[5:] == before[5:]
+        assert_rows_match_fresh_screen(app)
+        assert screen.anchor is None  # the range is cleared once applied
+
+
+async def test_bulk_edit_refuses_an_unknown_preset(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        corridor = screen.session.corridor
+        await pilot.press("space", "down", "b")
+        await pilot.pause()
+        chooser = app.screen
+        chooser.query_one("#choices").highlighted = [v for v, _ in chooser.options].index("fill")
+        await pilot.press("enter")
+        await pilot.pause()
+        await pilot.press("home", "ctrl+k", *"gravelly", "enter")
+        await pilot.pause()
+        prompt = app.screen
+        assert isinstance(prompt, PromptScreen)  # Enter refused: still asking
+        assert "unknown fill preset" in str(prompt.query_one("#prompt-why").content)
+        await pilot.press("escape")
+        assert screen.session.corridor is corridor
+
+
+async def test_split_at_a_chainage(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        n = len(screen.session.corridor.segments)
+        seg = screen.session.corridor.segments[1]
+        at = seg.chainage_start_m + 0.25 * seg.length_along_m
+        await pilot.press("down", "s")
+        await pilot.pause()
+        await pilot.press("home", "ctrl+k", *f"{seg.chainage_end_m + 1:g}", "enter")
+        await pilot.pause()
+        assert isinstance(app.screen, PromptScreen)  # outside the segment: refused
+        await pilot.press("home", "ctrl+k", *f"{at:g}", "enter")
+        await pilot.pause()
+        segs = screen.session.corridor.segments
+        assert len(segs) == n + 1
+        first, second = segs[1], segs[2]
+        assert (first.id, first.chainage_start_m, first.chainage_end_m) == (
+            seg.id,
+            seg.chainage_start_m,
+            at,
+        )
+        assert (second.chainage_start_m, second.chainage_end_m) == (at, seg.chainage_end_m)
+        # linear interpolation of the exposed height along the segment (common practice)
+        expected = seg.height_start_m + 0.25 * (seg.height_end_m - seg.height_start_m)
+        assert abs(first.height_end_m - expected) < 1e-3
+        assert second.height_start_m == first.height_end_m
+        assert_rows_match_fresh_screen(app)
+
+
+async def test_delete_then_undo_and_redo(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        original = screen.session.corridor
+        gone = original.segments[2].id
+        await pilot.press("down", "down", "x")
+        await pilot.pause()
+        ids = [s.id for s in screen.session.corridor.segments]
+        assert gone not in ids and len(ids) == len(original.segments) - 1
+        assert_rows_match_fresh_screen(app)
+        await pilot.press("u")
+        await pilot.pause()
+        assert screen.session.corridor is original
+        assert_rows_match_fresh_screen(app)
+        assert not screen.session.dirty  # back to what the file holds
+        await pilot.press("ctrl+y")
+        await pilot.pause()
+        assert gone not in [s.id for s in screen.session.corridor.segments]
+        assert_rows_match_fresh_screen(app)
+
+
+async def test_typing_a_value_is_one_undo_step(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        original = screen.session.corridor
+        await open_editor_at(pilot, app, 0, 10)
+        assert app.focused.id == "field-surcharge_kpa"
+        await pilot.press("home", "ctrl+k", *"12.5", "escape")
+        await pilot.pause()
+        assert screen.session.corridor.segments[0].surcharge_kpa == 12.5
+        await pilot.press("u")
+        await pilot.pause()
+        assert screen.session.corridor is original
+
+
+async def test_factor_set_switch_updates_every_verdict(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        await pilot.press("f")
+        await pilot.pause()
+        chooser = app.screen
+        assert isinstance(chooser, ChooseScreen)
+        chooser.query_one("#choices").highlighted = [v for v, _ in chooser.options].index("asd")
+        await pilot.press("enter")
+        await pilot.pause()
+        assert screen.session.corridor.factor_set.id == "asd"
+        assert "factor set asd" in summary(app)
+        assert_rows_match_fresh_screen(app)
+        await pilot.press("u")
+        await pilot.pause()
+        assert "factor set aashto-lrfd" in summary(app)
+        assert_rows_match_fresh_screen(app)
+
+
+async def test_add_and_duplicate_and_order(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        screen = app.corridor_screen
+        n = len(screen.session.corridor.segments)
+        last = screen.session.corridor.segments[-1]
+        await pilot.press("ctrl+end", "a")
+        await pilot.pause()
+        segs = screen.session.corridor.segments
+        assert len(segs) == n + 1 and segs[-1].chainage_start_m == last.chainage_end_m
+        assert segs[-1].id not in {s.id for s in segs[:-1]}
+        await pilot.press("ctrl+home", "c")
+        await pilot.pause()
+        segs = screen.session.corridor.segments
+        assert len(segs) == n + 2
+        assert segs[1].height_start_m == segs[0].height_start_m and segs[1].id != segs[0].id
+        await pilot.press("o")
+        await pilot.pause()
+        starts = [s.chainage_start_m for s in screen.session.corridor.segments]
+        assert starts == sorted(starts)
+        assert_rows_match_fresh_screen(app)
+
+
+async def test_unsaved_changes_guard_on_quit(corridor_file: Path):
+    app = make_app(corridor_file)
+    n = len(app.session.corridor.segments)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("x")
+        await pilot.pause()
+        await pilot.press("q")
+        await pilot.pause()
+        assert isinstance(app.screen, UnsavedScreen)
+        await pilot.press("escape")  # stay
+        await pilot.pause()
+        assert app.screen is app.corridor_screen and app.is_running
+        await pilot.press("ctrl+o")
+        await pilot.pause()
+        assert isinstance(app.screen, UnsavedScreen)  # also before opening another file
+        await pilot.press("escape", "q")
+        await pilot.pause()
+        await pilot.press("d")  # discard
+        await pilot.pause()
+    assert app.return_code == 0
+    assert len(store.load(corridor_file).segments) == n  # discarded: the file is as it was
+
+
+async def test_quit_without_changes_does_not_ask(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("q")
+        await pilot.pause()
+    assert app.return_code == 0
+
+
+async def test_demo_saves_through_save_as_and_is_remembered(tmp_path: Path):
+    from screening.tui.config import load_state
+
+    app = make_app(None)
+    target = tmp_path / "mine.toml"
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("ctrl+s")
+        await pilot.pause()
+        assert isinstance(app.screen, PromptScreen)
+        await pilot.press("home", "ctrl+k", *str(tmp_path / "nofolder" / "x.toml"), "enter")
+        await pilot.pause()
+        assert isinstance(app.screen, PromptScreen)  # no such folder: refused
+        await pilot.press("home", "ctrl+k", *str(target), "enter")
+        await pilot.pause()
+        assert app.corridor_screen.session.path == target
+    assert len(store.load(target).segments) == len(app.corridor_screen.session.corridor.segments)
+    assert load_state().recent[0] == str(target.resolve())
+
+
+async def test_open_a_bad_file_says_why_and_keeps_the_corridor(tmp_path: Path, corridor_file: Path):
+    bad = tmp_path / "bad.toml"
+    bad.write_text('schema = "wallscreen/1"\n[corridor\n', encoding="utf-8")
+    app = make_app(corridor_file)
+    seen: list[str] = []
+    async with app.run_test(size=SIZE) as pilot:
+        app.notify = lambda message, **kw: seen.append(message)  # type: ignore[method-assign]
+        corridor = app.corridor_screen.session.corridor
+        await pilot.press("ctrl+o")
+        await pilot.pause()
+        await pilot.press(*str(bad), "enter")
+        await pilot.pause()
+        assert app.corridor_screen.session.corridor is corridor
+    assert seen and "bad.toml:2" in seen[0]
+
+
+async def test_detail_view_shows_checks_reasons_layers_and_sketch(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        await pilot.press("down", "enter")
+        await pilot.pause()
+        detail = app.screen
+        assert isinstance(detail, DetailScreen)
+        res = engine.screen(app.corridor_screen.session.corridor).segment(1)
+        checks = plain(detail.query_one("#detail-checks").content)
+        for name, check in res.checks.items():
+            assert name in checks and f"{check.cdr:.2f}" in checks
+        assert f"▸ {res.governing}" in checks  # the governing check is marked
+        assert res.reasons[0] in plain(detail.query_one("#detail-reasons").content)
+        layers = plain(detail.query_one("#detail-layers").content)
+        assert len([ln for ln in layers.splitlines() if ln.strip()]) == len(res.layers) + 1
+        sketch = detail.query_one(CrossSection).render().plain
+        assert "█" in sketch and f"L {res.length_m:.1f} m" in sketch
+        await pilot.press("right_square_bracket")
+        assert detail.row == 2
+        await pilot.press("escape")
+        assert app.screen is app.corridor_screen
