@@ -26,9 +26,21 @@ class SourceMap:
     ``section`` is the dotted header path (``"segment"``, ``"fill.cohesive"``; ``""`` for
     the keys before any header), ``index`` counts repeats of an ``[[array]]`` header.
     A light scan, not a parser: it only places messages, so a miss just drops the line.
+    The scan runs on first use, so a file without problems never pays for it.
     """
 
     def __init__(self, text: str) -> None:
+        self._text = text
+        self._scanned = False
+
+    def __getattr__(self, name: str):
+        if name in ("keys", "headers", "repeats") and not self.__dict__.get("_scanned"):
+            self._scan(self._text)
+            self._scanned = True
+            return self.__dict__[name]
+        raise AttributeError(name)
+
+    def _scan(self, text: str) -> None:
         self.keys: dict[tuple[str, int, str], tuple[int, int, int]] = {}
         self.headers: dict[tuple[str, int], int] = {("", 0): 1}
         self.repeats: list[tuple[str, int, int, int]] = []

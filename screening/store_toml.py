@@ -10,6 +10,7 @@ when it fits on one line and holds no array of tables; otherwise it becomes a se
 from __future__ import annotations
 
 import datetime
+import math
 import re
 from typing import Any
 
@@ -44,9 +45,19 @@ def key(name: str) -> str:
     return name if _BARE.match(name) else tomli_w.dumps({"k": name})[4:].strip()
 
 
+_PLAIN = re.compile(r"^[ -!#-\[\]-~]*$")
+"""Printable ASCII without quote or backslash: written between quotes as it is."""
+
+
 def scalar(value: Any) -> str:
-    """One scalar (or array of scalars) in TOML, written by tomli_w."""
-    if isinstance(value, bool | int | float | str | datetime.date | datetime.time):
+    """One scalar in TOML: the common cases directly, the rest by tomli_w."""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, float) and math.isfinite(value):
+        return repr(value)  # what tomli_w writes too; reads back exactly
+    if isinstance(value, str) and _PLAIN.match(value):
+        return f'"{value}"'
+    if isinstance(value, int | float | str | datetime.date | datetime.time):
         return tomli_w.dumps({"v": value})[4:].rstrip("\n")
     raise TypeError(f"cannot write {type(value).__name__} to TOML")
 
