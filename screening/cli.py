@@ -99,6 +99,11 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         return 130
+    except BrokenPipeError:  # output piped into `head` and the like: not an error
+        import os
+
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return EXIT_OK
 
 
 def _run(args: argparse.Namespace) -> int:
@@ -155,7 +160,7 @@ def _table(corridor, result) -> str:
 
     head = (
         f"{'segment':<10} {'chainage m':>17} {'H m':>6} {'L m':>6} {'L/H':>5} "
-        f"{'governing':<13} {'CDR':>6}  verdict"
+        f"{'governing':<16} {'CDR':>6}  verdict"
     )
     lines = [
         f"{corridor.name}  —  factor set {result.factor_set}, engine {result.engine_version}",
@@ -167,7 +172,7 @@ def _table(corridor, result) -> str:
         ch = f"{seg.chainage_start_m:8.1f}–{seg.chainage_end_m:<8.1f}"
         lines.append(
             f"{seg.id:<10} {ch:>17} {result.design_height_m[i]:6.2f} {result.length_m[i]:6.1f} "
-            f"{result.length_ratio[i]:5.2f} {result.governing[i]:<13} "
+            f"{result.length_ratio[i]:5.2f} {result.governing[i]:<16} "
             f"{result.min_cdr[i]:6.2f}  {VERDICT_MARK[v]} {v}"
         )
     counts = result.counts()
