@@ -24,7 +24,7 @@ from screening.engine.arrays import SegmentArrays, build_arrays
 from screening.engine.combine import concat, merge
 from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, build_context
 from screening.engine.corrosion import steel_loss_per_side_mm
-from screening.engine.internal import InternalSetup, prepare, pullout_layers
+from screening.engine.internal import Grades, InternalSetup, prepare, pullout_layers
 from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
 from screening.engine.sizing import evaluate, size_length
 from screening.engine.verdict import decide
@@ -96,7 +96,7 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
     ctx = build_context(a)
     setup = prepare(ctx)
     sizing = size_length(ctx, setup, extras)
-    checks = evaluate(ctx, setup, extras, sizing.length_m)
+    checks, grades = evaluate(ctx, setup, extras, sizing.length_m)
     unchecked = {name for name in CHECKS if not a.cases.uses(name).any()}
     outcome = decide(ctx, sizing, checks, unchecked)
     extra_arrays: dict[str, object] = {
@@ -128,7 +128,7 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
         min_cdr=np.clip(outcome.min_cdr, 0.0, CDR_CAP),
         traffic_kpa=ctx.live_kpa,
         checks={name: _check_arrays(a, v, name in unchecked) for name, v in checks.items()},
-        layers=_layer_arrays(ctx, setup, sizing.length_m),
+        layers=_layer_arrays(ctx, setup, grades, sizing.length_m),
         grade_names=list(a.grade_names),
         extras=extra_arrays,
     )
@@ -150,8 +150,8 @@ def _check_arrays(a: SegmentArrays, v: CheckValues, unchecked: bool) -> CheckArr
     )
 
 
-def _layer_arrays(ctx: ScreenContext, s: InternalSetup, length_m) -> LayerArrays:
-    capacity, _ = pullout_layers(ctx, s, length_m)
+def _layer_arrays(ctx: ScreenContext, s: InternalSetup, grades: Grades, length_m) -> LayerArrays:
+    capacity, _ = pullout_layers(ctx, s, grades, length_m)
     uses = ctx.cases.uses("pullout")
     pick = uses if uses.any() else np.ones_like(uses)
     pull = np.where(pick[None, :, None], capacity, np.inf).min(axis=1)
@@ -161,7 +161,7 @@ def _layer_arrays(ctx: ScreenContext, s: InternalSetup, length_m) -> LayerArrays
         depth_m=ctx.geom.layer_depth_m,
         tension_kn_m=s.tension_design,
         pullout_capacity_kn_m=np.where(mask, pull, 0.0),
-        rupture_capacity_kn_m=s.rupture_capacity,
-        grade_index=np.where(mask & s.grade_passes, s.grade_index, -1),
+        rupture_capacity_kn_m=grades.rupture_capacity,
+        grade_index=np.where(mask & grades.passes_rupture, grades.index, -1),
         active_length_m=s.active_length,
     )

@@ -7,10 +7,14 @@ backslope surcharge), T_max = Kr sigma_v Sv with Kr/Ka by material [from memory,
 of geosynthetics T_al = T_ult/(RF_ID RF_CR RF_D) [AASHTO 11.10.6.4.3]; of steel phi Fy A_c on
 the section left after corrosion (engine/corrosion.py).
 
-Each layer gets the lightest grade of its family whose factored rupture capacity carries
-T_max in every case; when none does, the heaviest is used and rupture fails. Pullout then
-uses that grade's coverage Rc. Nothing here depends on L except the pullout length Le, so
-:func:`prepare` runs once and :func:`pullout` is cheap inside the length search.
+Each layer gets the lightest grade of its family that carries T_max in every case and
+passes pullout at the chosen L (METHOD section 5: "the lightest grade that passes"); strips
+and mats of a heavier grade cover more width (Rc), so a layer short of pullout may take more
+strips before the wall takes longer strips. The length search therefore asks, per layer,
+for the pullout of the grade with the largest Rc among those that carry T_max. When no
+grade carries T_max, the heaviest is used and rupture fails. Nothing here depends on L
+except the pullout length Le, so :func:`prepare` runs once and :func:`pullout` is cheap
+inside the length search.
 Arrays: ``(n, c, m)`` over segments, load cases and layers; ``(n, m)`` per layer; ``(n, g)``
 per grade.
 """
@@ -107,6 +111,19 @@ def grade_capacity_kn_m(a: SegmentArrays) -> tuple[FloatArray, FloatArray]:
 
 
 @dataclass(frozen=True)
+class Grades:
+    """A grade per layer and what it gives, (n, m) each."""
+
+    index: IntArray
+    passes_rupture: BoolArray
+    """False where no grade of the family carries T_max (the heaviest is then used)."""
+    rupture_capacity: FloatArray
+    """Factored rupture capacity per metre run."""
+    coverage: FloatArray
+    """Rc used in pullout."""
+
+
+@dataclass(frozen=True)
 class InternalSetup:
     """Everything internal that does not depend on L."""
 
@@ -114,17 +131,29 @@ class InternalSetup:
     """Factored T_max, (n, c, m); 0 on padding."""
     tension_design: FloatArray
     """Largest T_max over the cases that check rupture, (n, m)."""
-    grade_index: IntArray
-    """Chosen grade, (n, m): the lightest that carries T_max, else the heaviest."""
-    grade_passes: BoolArray
-    """(n, m) False where no grade carries T_max."""
-    rupture_capacity: FloatArray
-    """Factored rupture capacity of the chosen grade, (n, m)."""
-    pullout_per_m: FloatArray
-    """Factored pullout resistance per metre of Le, phi F* alpha sigma_v' C Rc, (n, c, m)."""
+    grade_capacity: FloatArray
+    """Factored rupture capacity of every grade, (n, g); -inf on padding."""
+    grade_coverage: FloatArray
+    """Rc of every grade, (n, g)."""
+    rupture_ok: BoolArray
+    """(n, m, g): the grade carries the layer's T_max."""
+    best: Grades
+    """Per layer, the grade with the largest Rc among those that carry T_max (the heaviest
+    when none does): the most pullout a layer can get, used by the length search."""
+    pullout_unit: FloatArray
+    """Factored pullout resistance per metre of Le and unit Rc, phi F* alpha sigma_v' C, (n, c, m)."""
     active_length: FloatArray
     """La, (n, m)."""
     mask: BoolArray
+
+
+def _grades(s_capacity, s_coverage, index, passes, mask) -> Grades:
+    return Grades(
+        index=index.astype(np.int64),
+        passes_rupture=passes & mask,
+        rupture_capacity=np.where(mask, np.take_along_axis(s_capacity, index, axis=1), 0.0),
+        coverage=np.where(mask, np.take_along_axis(s_coverage, index, axis=1), 0.0),
+    )
 
 
 def prepare(ctx: ScreenContext) -> InternalSetup:
@@ -144,28 +173,43 @@ def prepare(ctx: ScreenContext) -> InternalSetup:
     capacity, rc = grade_capacity_kn_m(a)
     ok = capacity[:, None, :] >= t_design[:, :, None] * (1 - 1e-12)
     passes = ok.any(axis=2)
-    chosen = np.where(passes, np.argmax(ok, axis=2), (a.grade_count - 1)[:, None])
-    rupture_cap = np.take_along_axis(capacity, chosen, axis=1)
-    rc_chosen = np.take_along_axis(rc, chosen, axis=1)
+    best_rc = np.where(ok, rc[:, None, :], -np.inf)
+    best = np.where(passes, np.argmax(best_rc, axis=2), (a.grade_count - 1)[:, None])
     fstar = pullout_friction(a, ctx.tan_fill, z)
-    per_m = (
-        a.phi_pullout
-        * fstar
-        * a.alpha[:, None, None]
-        * sigma_eff
-        * PULLOUT_C
-        * rc_chosen[:, None, :]
-    )
+    unit = a.phi_pullout * fstar * a.alpha[:, None, None] * sigma_eff * PULLOUT_C
     return InternalSetup(
         tension=tension,
         tension_design=np.where(mask, t_design, 0.0),
-        grade_index=chosen.astype(np.int64),
-        grade_passes=passes & mask,
-        rupture_capacity=np.where(mask, rupture_cap, 0.0),
-        pullout_per_m=per_m,
+        grade_capacity=capacity,
+        grade_coverage=rc,
+        rupture_ok=ok,
+        best=_grades(capacity, rc, best, passes, mask),
+        pullout_unit=unit,
         active_length=np.where(mask, active_length_m(a, g.design_height_m, z), 0.0),
         mask=mask,
     )
+
+
+def choose_grades(ctx: ScreenContext, s: InternalSetup, length_m: FloatArray) -> Grades:
+    """Per layer, the lightest grade that carries T_max and passes pullout at L.
+
+    When no grade passes both, the grade with the most pullout among those that carry T_max
+    (and the heaviest when none carries it) is kept, and its check fails.
+    """
+    le = np.maximum(length_m[:, None] - s.active_length, 0.0)
+    uses = ctx.cases.uses("pullout")
+    pick = uses if uses.any() else np.ones_like(uses)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        need = s.tension / (s.pullout_unit * le[:, None, :])
+    need = np.where(pick[None, :, None], np.nan_to_num(need, nan=0.0, posinf=np.inf), 0.0).max(
+        axis=1
+    )
+    if not uses.any():
+        need = np.zeros_like(need)
+    ok = s.rupture_ok & (s.grade_coverage[:, None, :] >= need[:, :, None] * (1 - 1e-12))
+    found = ok.any(axis=2)
+    index = np.where(found, np.argmax(ok, axis=2), s.best.index)
+    return _grades(s.grade_capacity, s.grade_coverage, index, s.rupture_ok.any(axis=2), s.mask)
 
 
 def _worst_layer(cdr: FloatArray, mask: BoolArray, uses: BoolArray) -> tuple[IntArray, IntArray]:
@@ -184,37 +228,48 @@ def _layer_words(ctx: ScreenContext, layer: IntArray) -> list[str]:
 
 
 def pullout_layers(
-    ctx: ScreenContext, s: InternalSetup, length_m: FloatArray
+    ctx: ScreenContext, s: InternalSetup, grades: Grades, length_m: FloatArray
 ) -> tuple[FloatArray, FloatArray]:
-    """(factored capacity, CDR) per case and layer at L, (n, c, m) each.
+    """(factored capacity, CDR) per case and layer at L with ``grades``, (n, c, m) each.
 
     The CDR is also capped by Le / Le_min, so a layer anchored less than the minimum length
     (Rules.min_anchorage_m) fails pullout whatever its friction.
     """
     le = length_m[:, None] - s.active_length
-    capacity = s.pullout_per_m * np.maximum(le, 0.0)[:, None, :]
+    capacity = s.pullout_unit * (grades.coverage * np.maximum(le, 0.0))[:, None, :]
     anchorage = np.clip(le / ctx.a.rules.min_anchorage_m, 0.0, CDR_CAP)[:, None, :]
     return capacity, np.minimum(ratio(capacity, s.tension), anchorage)
 
 
 def pullout(
-    ctx: ScreenContext, s: InternalSetup, length_m: FloatArray, detail: bool = True
+    ctx: ScreenContext,
+    s: InternalSetup,
+    length_m: FloatArray,
+    grades: Grades | None = None,
+    detail: bool = True,
 ) -> CheckValues:
-    """Worst layer and case for pullout at L (demand T_max, capacity phi P, kN/m)."""
-    capacity, cdr = pullout_layers(ctx, s, length_m)
+    """Worst layer and case for pullout at L (demand T_max, capacity phi P, kN/m).
+
+    ``grades`` None: each layer's best grade for pullout (what the length search needs).
+    """
+    grades = s.best if grades is None else grades
+    capacity, cdr = pullout_layers(ctx, s, grades, length_m)
     uses = ctx.cases.uses("pullout")
-    return _reduce(ctx, s, "pullout", s.tension, capacity, cdr, uses, detail, length_m)
+    return _reduce(ctx, s, grades, "pullout", capacity, cdr, uses, detail, length_m)
 
 
-def rupture(ctx: ScreenContext, s: InternalSetup, detail: bool = True) -> CheckValues:
+def rupture(
+    ctx: ScreenContext, s: InternalSetup, grades: Grades, detail: bool = True
+) -> CheckValues:
     """Worst layer and case for rupture of the chosen grades (kN/m)."""
-    capacity = np.broadcast_to(s.rupture_capacity[:, None, :], s.tension.shape)
+    capacity = np.broadcast_to(grades.rupture_capacity[:, None, :], s.tension.shape)
     cdr = ratio(capacity, s.tension)
     uses = ctx.cases.uses("rupture")
-    return _reduce(ctx, s, "rupture", s.tension, capacity, cdr, uses, detail, None)
+    return _reduce(ctx, s, grades, "rupture", capacity, cdr, uses, detail, None)
 
 
-def _reduce(ctx, s, check, demand, capacity, cdr, uses, detail, length_m) -> CheckValues:
+def _reduce(ctx, s, grades, check, capacity, cdr, uses, detail, length_m) -> CheckValues:
+    demand = s.tension
     n = ctx.n
     if not uses.any():
         zero = np.zeros(n)
@@ -236,8 +291,8 @@ def _reduce(ctx, s, check, demand, capacity, cdr, uses, detail, length_m) -> Che
         for i in np.flatnonzero(short).tolist():
             words[i] += f", Le {le[i]:.2f} m < {ctx.a.rules.min_anchorage_m:.2f} m"
     else:
-        grade = s.grade_index[rows, layer].tolist()
-        fails = ~s.grade_passes[rows, layer]
+        grade = grades.index[rows, layer].tolist()
+        fails = ~grades.passes_rupture[rows, layer]
         names = ctx.a.grade_names
         words = [
             f"{w}, {names[i][k]}" + (" (heaviest grade, none strong enough)" if f else "")

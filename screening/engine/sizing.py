@@ -81,16 +81,17 @@ def size_length(ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraChec
 
 def evaluate(
     ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraCheck], length_m: FloatArray
-) -> dict[str, CheckValues]:
-    """Every check at L, with its governing case, layer and words (for the result)."""
+) -> tuple[dict[str, CheckValues], internal.Grades]:
+    """Every check at L with its governing case, layer and words, and the grades chosen."""
     f = external.forces(ctx, length_m)
+    grades = internal.choose_grades(ctx, s, length_m)
     out = {
         "sliding": external.sliding(ctx, length_m, f),
         "eccentricity": external.eccentricity(ctx, length_m, f),
         "bearing": external.bearing(ctx, length_m, f),
-        "pullout": internal.pullout(ctx, s, length_m),
-        "rupture": internal.rupture(ctx, s),
+        "pullout": internal.pullout(ctx, s, length_m, grades),
+        "rupture": internal.rupture(ctx, s, grades),
     }
     for check in extras:
         out[check.name] = check.values(ctx, length_m)
-    return out
+    return out, grades

@@ -22,11 +22,13 @@ from screening.engine.arrays import GEOGRID, GRID, STRIP, build_arrays
 from screening.engine.context import build_context
 from screening.engine.internal import (
     active_length_m,
+    choose_grades,
     grade_capacity_kn_m,
     kr_over_ka,
     prepare,
     pullout,
     pullout_friction,
+    pullout_layers,
 )
 from screening.engine.samples import ASD, LRFD, make_corridor, make_segment
 from screening.engine.samples import GEOGRID as GEOGRID_FAMILY
@@ -115,11 +117,16 @@ def test_layer_tension_and_pullout_by_hand() -> None:
     length = 4.2
     la = 0.3 * 6.0
     fstar = 2.0 + (math.tan(math.radians(34)) - 2.0) * zj / 6.0  # Cu 10 -> 1.2 + 1 = 2.2 -> 2.0
-    rc = float(s.grade_index[0, j] + 2) * 0.05  # grades are 2..6 strips of 50 mm per metre
+    grades = choose_grades(ctx, s, np.array([length]))
+    strips = float(grades.index[0, j] + 2)  # grades are 2..6 strips of 50 mm per metre
+    rc = strips * 0.05
     p = 0.9 * fstar * 1.0 * (20.0 * zj) * 2 * (length - la) * rc
-    out = pullout(ctx, s, np.array([length]))
-    from screening.engine.internal import pullout_layers
-
-    cap, _ = pullout_layers(ctx, s, np.array([length]))
+    cap, _ = pullout_layers(ctx, s, grades, np.array([length]))
     assert cap[0, 0, j] == pytest.approx(p, rel=1e-12)
+    out = pullout(ctx, s, np.array([length]), grades)
     assert out.cdr[0] <= cap[0, 0, j] / t + 1e-12
+    # the lightest grade: one strip fewer would fail pullout or rupture at this layer
+    if strips > 2:
+        p_less = p * (strips - 1) / strips
+        rupture_less = 0.75 * 450.0 * (strips - 1) * 50.0 * (4.0 - 2 * 0.708) / 1000
+        assert p_less < t or rupture_less < t
