@@ -269,7 +269,7 @@ def test_demo_corridor_gives_all_three_verdicts_for_sound_reasons(presets) -> No
         return result.verdict[i], " ".join(result.reasons[i]).lower()
 
     verdict, reasons = why("EL-04")  # cu 20 kPa
-    assert verdict == "refer" and "soft foundation" in reasons
+    assert verdict == "refer" and "soft" in reasons
     for sid in ("ER-03", "R-06"):  # fines and PI above the select-fill limits
         verdict, reasons = why(sid)
         assert verdict == "refer" and "fill" in reasons, sid
@@ -278,7 +278,7 @@ def test_demo_corridor_gives_all_three_verdicts_for_sound_reasons(presets) -> No
     verdict, reasons = why("ER-01")  # flood water at the face
     assert verdict == "refer" and "water" in reasons
     verdict, reasons = why("EL-01")  # over 10 m on gravel
-    assert verdict != "clear" and "10 m" in reasons
+    assert verdict != "clear" and "height" in reasons
     clear = [result.ids[i] for i, v in enumerate(result.verdict) if v == "clear"]
     for sid in clear:
         seg = corridor.segments[result.index(sid)]
