@@ -101,7 +101,7 @@ STRIP = Reinforcement(
     kind="inextensible",
     grades=tuple(
         Grade(
-            f"{k} strips/m",
+            f"{k:g} strips/m",
             coverage_ratio=0.05 * k,
             elements_per_m=k,
             width_mm=50.0,

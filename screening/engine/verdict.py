@@ -106,6 +106,7 @@ def decide(
 
     low_cdr = min_cdr < r.marginal_cdr
     long_l = (length > r.marginal_length_ratio * h + 1e-9) & (length > r.rule_length_min_m + 1e-9)
+    long_l &= ~sizing.exhausted  # at the search limit the failing check says it all
     tall = h > r.marginal_height_m + 1e-9
     refer = out_of_scope | failed | sizing.exhausted
     for i in np.flatnonzero(low_cdr & ~refer).tolist():

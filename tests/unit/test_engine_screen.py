@@ -164,3 +164,18 @@ def test_extra_check_hook_sizes_the_length() -> None:
 def test_empty_corridor() -> None:
     r = screen(replace(make_corridor([make_segment(0)]), segments=()), extra_checks=())
     assert len(r) == 0 and r.counts() == {"clear": 0, "marginal": 0, "refer": 0}
+
+
+def test_demo_corridor_screens_under_every_shipped_factor_set() -> None:
+    """presets/demo-corridor.toml through the store, then every factor set of the presets."""
+    store = pytest.importorskip("screening.store")
+    presets = pytest.importorskip("screening.presets")
+    corridor = store.load(presets.demo_corridor_path())
+    for fs in presets.load_presets().factor_sets.values():
+        r = screen(corridor, fs)
+        assert len(r) == len(corridor.segments) and r.factor_set == fs.id
+        assert set(r.verdict) <= set(VERDICTS)
+        for c in r.checks.values():
+            assert np.all(np.isfinite(c.cdr)) and np.all(c.cdr > 0)
+    r = screen(corridor)
+    assert set(r.verdict) == set(VERDICTS)  # the demo shows all three outcomes

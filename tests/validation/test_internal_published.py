@@ -130,3 +130,15 @@ def test_layer_tension_and_pullout_by_hand() -> None:
         p_less = p * (strips - 1) / strips
         rupture_less = 0.75 * 450.0 * (strips - 1) * 50.0 * (4.0 - 2 * 0.708) / 1000
         assert p_less < t or rupture_less < t
+
+
+def test_partial_factor_on_tan_phi_divides_fstar() -> None:
+    """EN 1997-1 M2 (gamma_phi' = 1.25 [from memory, Table A.4]) divides tan(phi) and so F*."""
+    from screening.engine.samples import DA1
+
+    a = build_arrays(make_corridor([make_segment(0)], DA1))
+    ctx = build_context(a)
+    z = np.array([[0.0, 3.0, 6.0]])
+    f = pullout_friction(a, ctx.tan_fill, z)[0]
+    np.testing.assert_allclose(f[1], f[0] / 1.25, rtol=1e-12)  # C2 against C1
+    assert ctx.tan_fill[0, 1] == pytest.approx(math.tan(math.radians(34.0)) / 1.25)
