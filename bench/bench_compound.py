@@ -1,0 +1,166 @@
+"""Benchmark of the compound/global slip search: speed, and accuracy against a fine search.
+
+Run from the repository root:  python bench/bench_compound.py [--segments 1000] [--check 60]
+
+The corridor is invented for the benchmark (seeded random walls: heights 2-12 m, sand and clay
+foundations, toe slopes, backslopes, surcharges, steel strips and geosynthetics); it is not a
+design case. Two numbers come out:
+
+1. the time of the compound + global search for ``--segments`` segments under AASHTO LRFD
+   (one core: run with OMP_NUM_THREADS=1 / OPENBLAS_NUM_THREADS=1);
+2. for ``--check`` of them, the critical factor of each search density against the FINE
+   search: the largest and mean relative excess (the search density screening uses must
+   stay within 1 %).
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import time
+from dataclasses import replace
+
+os.environ.setdefault("OMP_NUM_THREADS", "1")
+os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
+
+import numpy as np  # noqa: E402
+
+from screening.engine.compound import WallSlipInput, compound_check  # noqa: E402
+from screening.engine.slip_search import FINE, STANDARD, SearchDensity  # noqa: E402
+
+
+def invented_walls(n: int, seed: int = 7) -> WallSlipInput:
+    """Seeded random walls for the benchmark only (invented data)."""
+    rng = np.random.default_rng(seed)
+    h = rng.uniform(2.0, 12.0, n)
+    d = np.maximum(0.6, h / 20)
+    length = np.round(h * rng.uniform(0.7, 1.0, n), 1)
+    toe = np.where(rng.random(n) < 0.2, rng.choice([18.43, 26.57], n), 0.0)
+    back = np.where(rng.random(n) < 0.2, rng.choice([14.0, 18.43], n), 0.0)
+    clay = rng.random(n) < 0.25
+    cu = np.where(clay, rng.uniform(15.0, 80.0, n), np.nan)
+    fill_phi = rng.uniform(32.0, 38.0, n)
+    sv = np.where(rng.random(n) < 0.5, 0.75, 0.6)
+    m = int(np.max(np.floor(h / sv)))
+    j = np.arange(m)[None, :]
+    count = np.floor(h / sv).astype(int)
+    level = sv[:, None] / 2 + j * sv[:, None]
+    mask = j < count[:, None]
+    depth = np.clip(h[:, None] - level, 0.0, None)
+    steel = rng.random(n) < 0.5
+    fstar = np.where(
+        steel[:, None],
+        np.interp(depth, [0.0, 6.0], [1.5, 0.7]),
+        0.67 * np.tan(np.radians(fill_phi))[:, None],
+    )
+    coverage = np.where(steel, 0.2, 1.0)[:, None]
+    alpha = np.where(steel, 1.0, 0.8)[:, None]
+    pullout = fstar * alpha * 20.0 * depth * 2.0 * coverage
+    rupture = np.where(steel, rng.uniform(150.0, 300.0, n), rng.uniform(25.0, 90.0, n))
+    full = np.broadcast_to
+    return WallSlipInput(
+        height_m=h,
+        embedment_m=d,
+        length_m=length,
+        backslope_deg=back,
+        toe_slope_deg=toe,
+        toe_slope_height_m=h,
+        fill_unit_weight_kn_m3=np.full(n, 20.0),
+        fill_cohesion_kpa=np.zeros(n),
+        fill_friction_deg=fill_phi,
+        retained_unit_weight_kn_m3=np.full(n, 19.0),
+        retained_cohesion_kpa=np.zeros(n),
+        retained_friction_deg=rng.uniform(28.0, 34.0, n),
+        found_unit_weight_kn_m3=np.full(n, 19.0),
+        found_cohesion_kpa=np.where(clay, 5.0, rng.uniform(0.0, 5.0, n)),
+        found_friction_deg=np.where(clay, 24.0, rng.uniform(28.0, 36.0, n)),
+        found_undrained_kpa=cu,
+        found_water_depth_m=rng.choice([0.0, 2.0, 20.0], n),
+        surcharge_kpa=rng.choice([0.0, 10.0], n),
+        live_kpa=rng.choice([0.0, 11.4], n),
+        abutment=rng.random(n) < 0.1,
+        layer_level_m=np.where(mask, level, 0.0),
+        layer_mask=mask,
+        layer_rupture_kn_m=full(rupture[:, None], mask.shape).copy(),
+        layer_pullout_kn_m2=np.where(mask, pullout, 0.0),
+    )
+
+
+LRFD = {"compound": 0.65, "compound_abutment": 0.65}
+
+
+def timed(inp: WallSlipInput, density: SearchDensity):
+    """(result, wall-clock seconds, CPU seconds of this process)."""
+    start, cpu = time.perf_counter(), time.process_time()
+    result = compound_check(inp, "lrfd", LRFD, density=density)
+    return result, time.perf_counter() - start, time.process_time() - cpu
+
+
+def least(result) -> np.ndarray:
+    """Governing (least) Bishop factor of each segment over both families."""
+    return np.minimum(result.compound.factor, result.global_.factor)
+
+
+LADDER = {
+    "coarse": replace(
+        STANDARD,
+        exit_fractions=(0.0, 0.3, 0.8),
+        entry_fractions_of_length=(0.5, 0.9),
+        entry_beyond_heights=(0.2, 0.7, 1.5),
+        angles_deg=(35.0, 65.0, 95.0),
+        starts=2,
+        refine_steps=8,
+    ),
+    "STANDARD": STANDARD,
+    "dense": replace(STANDARD, starts=5, refine_steps=16, moves=26),
+}
+"""Search densities from coarse to dense, each compared with FINE."""
+
+
+def accuracy(inp: WallSlipInput) -> None:
+    fine, t_fine, c_fine = timed(inp, FINE)
+    ref = least(fine)
+    print(f"FINE reference: {inp.n} segments in {t_fine:.1f} s wall, {c_fine:.1f} s CPU")
+    print("  density    circles/seg  max excess  mean excess  >1 %   below FINE   CPU s")
+    for name, density in LADDER.items():
+        got, _, cpu = timed(inp, density)
+        excess = (least(got) - ref) / ref
+        tried = _circles_per_segment(density)
+        print(
+            f"  {name:10s} {tried:11d}  {100 * excess.max():8.2f} %  {100 * excess.mean():9.2f} %"
+            f"  {int(np.sum(excess > 0.01)):4d}  {int(np.sum(excess < -1e-3)):8d}    {cpu:6.2f}"
+        )
+
+
+def _circles_per_segment(d: SearchDensity) -> int:
+    grid = (
+        len(d.exit_fractions)
+        * (len(d.entry_fractions_of_length) + len(d.entry_beyond_heights))
+        * len(d.angles_deg)
+    )
+    return grid + d.starts * d.moves * d.refine_steps + d.starts + 2
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--segments", type=int, default=1000)
+    parser.add_argument("--check", type=int, default=60, help="segments in the accuracy run")
+    args = parser.parse_args()
+    inp = invented_walls(args.segments)
+    result, seconds, cpu = timed(inp, STANDARD)
+    drained = int(np.sum(~np.isfinite(inp.found_undrained_kpa)))
+    print(
+        f"compound + global search, {args.segments} segments ({drained} drained foundations, "
+        f"{args.segments - drained} clay checked short and long term), AASHTO LRFD, "
+        f"STANDARD density: {seconds:.2f} s wall, {cpu:.2f} s CPU"
+    )
+    print(
+        f"  critical circles not converged: "
+        f"{int(np.sum(~result.compound.converged) + np.sum(~result.global_.converged))}"
+    )
+    if args.check:
+        accuracy(invented_walls(args.check, seed=11))
+
+
+if __name__ == "__main__":
+    main()

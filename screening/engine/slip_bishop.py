@@ -1,0 +1,122 @@
+"""Factor of safety of circular slip surfaces by the method of slices.
+
+Bishop's simplified method [pub, Bishop 1955, Geotechnique 5(1)]: with the slice base
+inclination alpha, width b, weight W, pore pressure u and strength (c', tan phi'),
+
+    F = (R * sum[(c' b + (W - u b) tan phi') / m_alpha] + M_extra) / (R * sum[W sin alpha] + M_drive)
+    m_alpha = cos alpha + sin alpha tan phi' / F,
+
+solved by fixed-point iteration from the ordinary (Fellenius) value until |dF| < tol.
+``M_extra`` is the restoring moment of reinforcement and ``M_drive`` any additional driving
+moment (pseudo-static inertia). Where m_alpha falls below 0.2 on a frictional base it is held
+at 0.2, the usual guard against the toe-slice singularity [mem, Whitman & Bailey 1967].
+
+The ordinary method of slices [pub, Fellenius 1936]: N' = W cos alpha - u b / cos alpha,
+F = (R * sum[c' b / cos alpha + N' tan phi'] + M_extra) / (R * sum[W sin alpha] + M_drive).
+
+Both work on arrays of any leading shape with slices on the last axis.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from screening.engine.result import BoolArray, FloatArray
+
+M_ALPHA_MIN = 0.2
+TOLERANCE = 1e-4
+MAX_ITERATIONS = 60
+_TINY = 1e-9
+
+
+@dataclass(frozen=True)
+class SliceForces:
+    """Everything Bishop needs per slice; arrays ``(..., s)``, ``radius_m`` is ``(...)``."""
+
+    weight_kn: FloatArray
+    width_m: FloatArray
+    sin_a: FloatArray
+    cos_a: FloatArray
+    cohesion_kpa: FloatArray
+    tan_phi: FloatArray
+    pore_kpa: FloatArray
+    radius_m: FloatArray
+
+
+@dataclass(frozen=True)
+class Factor:
+    """Factor of safety per surface with how the iteration ended."""
+
+    value: FloatArray
+    """F; +inf where the mass drives no rotation (no failure in that direction)."""
+    converged: BoolArray
+    iterations: int
+
+
+def _driving(f: SliceForces, extra_drive: FloatArray) -> FloatArray:
+    return f.radius_m * np.sum(f.weight_kn * f.sin_a, axis=-1) + extra_drive
+
+
+def ordinary_factor(
+    f: SliceForces, extra_restoring: FloatArray | float = 0.0, extra_drive: FloatArray | float = 0.0
+) -> FloatArray:
+    """Fellenius' ordinary method of slices (see module docstring)."""
+    cos_a = np.maximum(f.cos_a, _TINY)
+    normal = np.clip(f.weight_kn * cos_a - f.pore_kpa * f.width_m / cos_a, 0.0, None)
+    resist = np.sum(f.cohesion_kpa * f.width_m / cos_a + normal * f.tan_phi, axis=-1)
+    drive = _driving(f, np.asarray(extra_drive, dtype=np.float64))
+    num = f.radius_m * resist + extra_restoring
+    return np.where(drive > _TINY, num / np.where(drive > _TINY, drive, 1.0), np.inf)
+
+
+def bishop_factor(
+    f: SliceForces,
+    extra_restoring: FloatArray | float = 0.0,
+    extra_drive: FloatArray | float = 0.0,
+    tolerance: float = TOLERANCE,
+    max_iterations: int = MAX_ITERATIONS,
+) -> Factor:
+    """Bishop's simplified factor of safety for every surface (see module docstring).
+
+    Iterates all surfaces together until each changes by less than ``tolerance``; surfaces
+    still moving after ``max_iterations`` come back with ``converged`` False, never silently.
+    """
+    drive = _driving(f, np.asarray(extra_drive, dtype=np.float64))
+    active = drive > _TINY
+    safe_drive = np.where(active, drive, 1.0)
+    effective = np.clip(f.weight_kn - f.pore_kpa * f.width_m, 0.0, None)
+    top = f.radius_m[..., None] * (f.cohesion_kpa * f.width_m + effective * f.tan_phi)
+    floor = np.where(f.tan_phi > 0, M_ALPHA_MIN, _TINY).astype(top.dtype)
+    slope = f.sin_a * f.tan_phi
+    restoring = np.broadcast_to(np.asarray(extra_restoring, dtype=top.dtype), drive.shape)
+    factor = ordinary_factor(f, extra_restoring, extra_drive)
+    factor = np.where(active & np.isfinite(factor) & (factor > 0), factor, 1.0)
+    # Iterate on the surfaces still moving only (flattened), so a few slow ones stay cheap.
+    shape = drive.shape
+    factor = factor.reshape(-1).copy()
+    todo = np.flatnonzero(active.reshape(-1))
+    flat = lambda a: a.reshape(-1, a.shape[-1])  # noqa: E731
+    cos_a, slope_f, top_f, floor_f = (
+        flat(np.broadcast_to(f.cos_a, top.shape)),
+        flat(slope),
+        flat(top),
+        flat(np.broadcast_to(floor, top.shape)),
+    )
+    rest_f, drive_f = restoring.reshape(-1), safe_drive.reshape(-1)
+    converged = np.ones(factor.shape, dtype=bool)
+    iterations = 0
+    while todo.size and iterations < max_iterations:
+        iterations += 1
+        m_alpha = np.maximum(cos_a[todo] + slope_f[todo] / factor[todo, None], floor_f[todo])
+        new = (np.sum(top_f[todo] / m_alpha, axis=-1) + rest_f[todo]) / drive_f[todo]
+        new = np.maximum(new, _TINY)
+        moving = np.abs(new - factor[todo]) >= tolerance
+        factor[todo] = new
+        todo = todo[moving]
+    converged[todo] = False
+    factor = factor.reshape(shape)
+    converged = converged.reshape(shape)
+    value = np.where(active, factor, np.inf)
+    return Factor(value, converged | ~active, iterations)
