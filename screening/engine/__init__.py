@@ -95,6 +95,7 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
     """The engine proper, on inputs already turned into arrays."""
     ctx = build_context(a)
     setup = prepare(ctx)
+    ctx = replace(ctx, internal=setup)
     sizing = size_length(ctx, setup, extras)
     checks, grades = evaluate(ctx, setup, extras, sizing.length_m)
     unchecked = {name for name in CHECKS if not a.cases.uses(name).any()}

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -17,6 +18,9 @@ from screening.engine.geometry import Geometry, build_geometry
 from screening.engine.loads import traffic_kpa
 from screening.engine.pressure import coulomb_ka, design_friction_deg, rankine_ka
 from screening.engine.result import CDR_CAP, FloatArray, IntArray
+
+if TYPE_CHECKING:
+    from screening.engine.internal import InternalSetup
 
 
 @dataclass(frozen=True)
@@ -43,6 +47,8 @@ class ScreenContext:
     """Design c' of the foundation, (n, c)."""
     found_undrained_kpa: FloatArray
     """Design cu of the foundation, (n, c); NaN when drained."""
+    internal: InternalSetup | None = None
+    """Tensions, grades and pullout terms (set by the screen before any check runs)."""
 
     @property
     def n(self) -> int:

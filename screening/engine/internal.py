@@ -299,3 +299,36 @@ def _reduce(ctx, s, grades, check, capacity, cdr, uses, detail, length_m) -> Che
             for i, (w, k, f) in enumerate(zip(words, grade, fails.tolist(), strict=True))
         ]
     return CheckValues(out.demand, out.capacity, out.cdr, out.case, words)
+
+
+def nominal_layer_strengths(ctx: ScreenContext, length_m: FloatArray) -> dict[str, FloatArray]:
+    """Unfactored strengths of the layers at L with the grades screening chooses there.
+
+    For checks added later (compound slip circles): ``level_m`` height of each layer above the
+    base, ``rupture_kn_m`` long-term tensile strength per metre run (no resistance factor),
+    ``pullout_kn_m2`` pullout resistance per metre of embedded length per metre run
+    (F* alpha sigma_v' C Rc with unfactored soil weight and strength, no live load),
+    ``mask``; all (n, m).
+    """
+    s = ctx.internal if ctx.internal is not None else prepare(ctx)
+    a, g = ctx.a, ctx.geom
+    grades = choose_grades(ctx, s, length_m)
+    z = g.layer_depth_m
+    tan_r = np.tan(np.radians(a.fill_friction_deg))[:, None]
+    fstar = pullout_friction(a, tan_r, z)[:, 0, :]
+    sigma = (
+        a.fill_unit_weight_kn_m3[:, None] * z
+        + ctx.slope_surcharge_kpa[:, None]
+        + a.surcharge_kpa[:, None]
+    )
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rupture_nominal = grades.rupture_capacity / a.phi_rupture[:, None]
+    mask = g.layer_mask
+    return {
+        "level_m": np.where(mask, g.design_height_m[:, None] - z, 0.0),
+        "rupture_kn_m": np.where(mask, np.nan_to_num(rupture_nominal), 0.0),
+        "pullout_kn_m2": np.where(
+            mask, fstar * a.alpha[:, None] * sigma * PULLOUT_C * grades.coverage, 0.0
+        ),
+        "mask": mask,
+    }

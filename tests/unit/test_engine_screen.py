@@ -179,3 +179,29 @@ def test_demo_corridor_screens_under_every_shipped_factor_set() -> None:
             assert np.all(np.isfinite(c.cdr)) and np.all(c.cdr > 0)
     r = screen(corridor)
     assert set(r.verdict) == set(VERDICTS)  # the demo shows all three outcomes
+
+
+def test_nominal_layer_strengths_for_plug_ins() -> None:
+    """The unfactored strengths a slip-circle check reads: factored ones divided by phi."""
+    from screening.engine.arrays import build_arrays
+    from screening.engine.context import build_context
+    from screening.engine.internal import choose_grades, nominal_layer_strengths, prepare
+
+    ctx = build_context(
+        build_arrays(make_corridor([make_segment(0), make_segment(1, reinforcement=GEOGRID)]))
+    )
+    ctx = replace(ctx, internal=prepare(ctx))
+    length = np.array([4.7, 4.7])
+    out = nominal_layer_strengths(ctx, length)
+    grades = choose_grades(ctx, ctx.internal, length)
+    mask = out["mask"]
+    np.testing.assert_allclose(
+        out["rupture_kn_m"][0][mask[0]], grades.rupture_capacity[0][mask[0]] / 0.75
+    )
+    np.testing.assert_allclose(
+        out["rupture_kn_m"][1][mask[1]], grades.rupture_capacity[1][mask[1]] / 0.90
+    )
+    np.testing.assert_allclose(
+        out["level_m"][0][mask[0]][-1], 0.375
+    )  # bottom layer Sv/2 above the pad
+    assert np.all(out["pullout_kn_m2"][mask] > 0)
