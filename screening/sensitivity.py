@@ -204,19 +204,49 @@ def segment_sensitivity(
     ``result``: a screen of ``corridor`` already at hand (only its traffic is read);
     ``ranges``: half-ranges by input key (default: presets/sensitivity.toml).
     """
+    return corridor_sensitivity(corridor, [i], ranges=ranges, factor_set=factor_set, result=result)[
+        i
+    ]
+
+
+def corridor_sensitivity(
+    corridor: Corridor,
+    indices: Sequence[int],
+    *,
+    ranges: dict[str, float] | None = None,
+    factor_set: FactorSet | None = None,
+    result: CorridorResult | None = None,
+) -> dict[int, list[Sensitivity]]:
+    """:func:`segment_sensitivity` of several segments, all variants in one engine call."""
     ranges = load_ranges() if ranges is None else ranges
-    seg = corridor.segments[i]
-    base_run = screen(dataclasses.replace(corridor, segments=(seg,)), factor_set)
-    traffic = float(base_run.traffic_kpa[0]) if result is None else float(result.traffic_kpa[i])
-    plan = list(_variants(seg, traffic, ranges))
-    variants = [seg]
-    for p, _, lo, hi in plan:
-        variants += [p.put(seg, lo), p.put(seg, hi)]
+    indices = list(dict.fromkeys(indices))
+    if not indices:
+        return {}
+    if result is None:
+        picked = dataclasses.replace(
+            corridor, segments=tuple(corridor.segments[i] for i in indices)
+        )
+        traffic = dict(zip(indices, screen(picked, factor_set).traffic_kpa.tolist(), strict=True))
+    else:
+        traffic = {i: float(result.traffic_kpa[i]) for i in indices}
+    plans = {}
+    variants: list[Segment] = []
+    for i in indices:
+        seg = corridor.segments[i]
+        plan = list(_variants(seg, traffic[i], ranges))
+        plans[i] = (len(variants), plan)
+        variants.append(seg)
+        for p, _, lo, hi in plan:
+            variants += [p.put(seg, lo), p.put(seg, hi)]
     run = screen(dataclasses.replace(corridor, segments=tuple(variants)), factor_set)
-    v0, l0, c0 = run.verdict[0], float(run.length_m[0]), float(run.min_cdr[0])
+    return {i: _rank(run, first, plan) for i, (first, plan) in plans.items()}
+
+
+def _rank(run: CorridorResult, first: int, plan: list) -> list[Sensitivity]:
+    v0, l0, c0 = run.verdict[first], float(run.length_m[first]), float(run.min_cdr[first])
     out = []
     for k, (p, base, lo, hi) in enumerate(plan):
-        a, b = 1 + 2 * k, 2 + 2 * k
+        a, b = first + 1 + 2 * k, first + 2 + 2 * k
         la, lb = float(run.length_m[a]), float(run.length_m[b])
         ca, cb = float(run.min_cdr[a]), float(run.min_cdr[b])
         out.append(

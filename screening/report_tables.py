@@ -1,0 +1,411 @@
+"""The report's tables as plain rows of strings, shared by the HTML and Markdown writers.
+
+Numbers are shown in the report's display units (:class:`screening.units.Display`);
+capacity/demand ratios and angles are unit-free.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass
+
+from screening.engine.result import UNITS
+from screening.model import VERDICTS, Fill, Reinforcement
+from screening.report import ReportData
+
+CHECK_ORDER = (
+    "sliding",
+    "eccentricity",
+    "bearing",
+    "pullout",
+    "rupture",
+    "compound",
+    "global",
+    "seismic",
+)
+
+
+@dataclass(frozen=True)
+class Table:
+    title: str
+    header: list[str]
+    rows: list[list[str]]
+    note: str = ""
+
+
+def _num(data: ReportData, value: float, unit: str, digits: int | None = None) -> str:
+    return f"{data.display.value(value, unit):.{_digits(unit) if digits is None else digits}f}"
+
+
+def _digits(unit: str) -> int:
+    return {"m": 2, "kPa": 1, "kN/m": 1, "kN·m/m": 0, "m2": 1, "m3": 1, "kg": 0}.get(unit, 2)
+
+
+def _u(data: ReportData, unit: str) -> str:
+    return data.display.label(unit)
+
+
+def checks_present(data: ReportData) -> list[str]:
+    names = list(data.result.checks)
+    return [c for c in CHECK_ORDER if c in names] + [c for c in names if c not in CHECK_ORDER]
+
+
+def summary(data: ReportData) -> Table:
+    r, c = data.result, data.corridor
+    total = sum(s.length_along_m for s in c.segments) or 1.0
+    rows = []
+    for v in VERDICTS:
+        idx = [i for i, x in enumerate(r.verdict) if x == v]
+        run = sum(c.segments[i].length_along_m for i in idx)
+        rows.append([v, str(len(idx)), _num(data, run, "m", 1), f"{100 * run / total:.0f} %"])
+    rows.append(["all", str(len(r)), _num(data, total, "m", 1), "100 %"])
+    return Table(
+        "Summary by verdict",
+        ["verdict", "segments", f"length of wall ({_u(data, 'm')})", "share"],
+        rows,
+    )
+
+
+def reasons(data: ReportData) -> Table:
+    r = data.result
+    rows = [[r.ids[i], r.verdict[i], "; ".join(r.reasons[i])] for i in data.flagged]
+    return Table("Why segments are not clear", ["segment", "verdict", "reasons"], rows)
+
+
+def segments(data: ReportData) -> Table:
+    r, c, m = data.result, data.corridor, _u(data, "m")
+    rows = []
+    for i, s in enumerate(c.segments):
+        rows.append(
+            [
+                s.id,
+                s.wall,
+                f"{_num(data, s.chainage_start_m, 'm', 1)}–{_num(data, s.chainage_end_m, 'm', 1)}",
+                f"{_num(data, s.height_start_m, 'm')} / {_num(data, s.height_end_m, 'm')}",
+                _num(data, float(r.design_height_m[i]), "m"),
+                _num(data, float(r.embedment_m[i]), "m"),
+                _num(data, float(r.length_m[i]), "m"),
+                f"{float(r.length_ratio[i]):.2f}",
+                _num(data, float(r.rule_length_m[i]), "m"),
+                r.governing[i],
+                f"{float(r.min_cdr[i]):.2f}",
+                r.verdict[i],
+            ]
+        )
+    header = [
+        "segment",
+        "wall",
+        f"chainage ({m})",
+        f"exposed height start / end ({m})",
+        f"design H ({m})",
+        f"embedment ({m})",
+        f"L ({m})",
+        "L/H",
+        f"rule L ({m})",
+        "governing",
+        "min CDR",
+        "verdict",
+    ]
+    return Table("Segments", header, rows)
+
+
+def cdr_overview(data: ReportData) -> Table:
+    names = checks_present(data)
+    r = data.result
+    rows = [
+        [r.ids[i], *(f"{float(r.checks[n].cdr[i]):.2f}" for n in names), r.verdict[i]]
+        for i in range(len(r))
+    ]
+    return Table(
+        "Capacity/demand ratio of every check (>= 1.00 passes)",
+        ["segment", *names, "verdict"],
+        rows,
+        "Each check at its governing load case, worst layer and worst surface.",
+    )
+
+
+def check_tables(data: ReportData) -> list[Table]:
+    r = data.result
+    out = []
+    for name in checks_present(data):
+        ch = r.checks[name]
+        unit = UNITS.get(name, "")
+        shown = _u(data, unit) if unit else ""
+        rows = [
+            [
+                r.ids[i],
+                _num(data, float(ch.demand[i]), unit),
+                _num(data, float(ch.capacity[i]), unit),
+                f"{float(ch.cdr[i]):.2f}",
+                ch.case[i],
+                ch.detail[i],
+            ]
+            for i in range(len(r))
+        ]
+        out.append(
+            Table(
+                f"Check: {name}",
+                ["segment", f"demand ({shown})", f"capacity ({shown})", "CDR", "case", "where"],
+                rows,
+            )
+        )
+    return out
+
+
+def quantities(data: ReportData) -> list[Table]:
+    q = data.quantities
+    if q is None:
+        return []
+    m, m2, m3, kg = (_u(data, u) for u in ("m", "m2", "m3", "kg"))
+    cur = q.rates.currency
+    rows = []
+    for s in q.segments:
+        geo = sum(s.geosynthetic_m2.values())
+        rows.append(
+            [
+                s.id,
+                _num(data, s.length_along_m, "m", 1),
+                _num(data, s.face_area_m2, "m2"),
+                _num(data, s.facing_area_m2, "m2"),
+                _num(data, s.select_fill_m3, "m3"),
+                _num(data, s.reinforcement_length_m, "m"),
+                str(s.layers),
+                str(s.strip_count) if s.strip_count else "",
+                _num(data, s.steel_kg, "kg") if s.steel_kg else "",
+                _num(data, geo, "m2") if geo else "",
+                f"{s.cost_total:,.0f}" + (" *" if s.short_grade else ""),
+            ]
+        )
+    total = [
+        "total",
+        _num(data, q.total("length_along_m"), "m", 1),
+        _num(data, q.total("face_area_m2"), "m2"),
+        _num(data, q.total("facing_area_m2"), "m2"),
+        _num(data, q.total("select_fill_m3"), "m3"),
+        "",
+        "",
+        str(int(q.total("strip_count"))),
+        _num(data, q.total("steel_kg"), "kg"),
+        _num(data, sum(q.geosynthetic_m2().values()), "m2"),
+        f"{q.total('cost_total'):,.0f}",
+    ]
+    header = [
+        "segment",
+        f"length ({m})",
+        f"exposed face ({m2})",
+        f"facing incl. embedment ({m2})",
+        f"select fill ({m3})",
+        f"L ({m})",
+        "layers",
+        "steel strips",
+        f"steel ({kg})",
+        f"geosynthetic ({m2})",
+        f"rough cost ({cur})",
+    ]
+    placeholder = (
+        " PLACEHOLDER RATES: replace presets/rates.toml before using any cost."
+        if q.rates.placeholder
+        else ""
+    )
+    main = Table(
+        "Quantities and rough cost",
+        header,
+        [*rows, total],
+        "Levelling pad length = length along the wall. * a layer with no passing grade, "
+        "counted at the heaviest grade." + placeholder,
+    )
+    grades = Table(
+        "Geosynthetic by grade",
+        ["grade", f"area ({m2})"],
+        [[g, _num(data, a, "m2")] for g, a in sorted(q.geosynthetic_m2().items())],
+    )
+    cost = Table(
+        "Rough cost by item",
+        ["item", f"cost ({cur})"],
+        [[k, f"{v:,.0f}"] for k, v in q.cost().items()]
+        + [["total", f"{q.total('cost_total'):,.0f}"]],
+        placeholder.strip(),
+    )
+    rates = Table(
+        "Unit rates used",
+        ["rate", "value"],
+        [[f.name, str(getattr(q.rates, f.name))] for f in dataclasses.fields(q.rates)],
+    )
+    return [main, grades, cost, rates]
+
+
+def sensitivity(data: ReportData) -> list[Table]:
+    out = []
+    for i, items in sorted(data.sensitivity.items()):
+        r = data.result
+        rows = [
+            [
+                str(k + 1),
+                s.label,
+                f"{s.base:g} {s.unit}",
+                f"{s.low:g} … {s.high:g}",
+                f"{s.verdict_low} / {s.verdict_high}",
+                f"{_num(data, s.length_low_m, 'm')} / {_num(data, s.length_high_m, 'm')}",
+                f"{s.min_cdr_low:.2f} / {s.min_cdr_high:.2f}",
+                "yes" if s.flips else "",
+            ]
+            for k, s in enumerate(items)
+        ]
+        out.append(
+            Table(
+                f"Sensitivity of {r.ids[i]} ({r.verdict[i]}, L {_num(data, float(r.length_m[i]), 'm')} "
+                f"{_u(data, 'm')}, min CDR {float(r.min_cdr[i]):.2f})",
+                [
+                    "rank",
+                    "input",
+                    "value",
+                    "range",
+                    "verdict low / high",
+                    f"L low / high ({_u(data, 'm')})",
+                    "min CDR low / high",
+                    "flips verdict",
+                ],
+                rows,
+            )
+        )
+    return out
+
+
+def monte_carlo(data: ReportData) -> Table | None:
+    mc = data.monte_carlo
+    if mc is None:
+        return None
+    rows = [
+        [
+            sid,
+            mc.base_verdict[j],
+            f"{mc.p_refer[j]:.2f}",
+            f"{mc.p_marginal[j]:.2f}",
+            f"{mc.p_clear[j]:.2f}",
+            _num(data, float(mc.length_mean_m[j]), "m"),
+            _num(data, float(mc.length_p90_m[j]), "m"),
+            "robust" if mc.robust()[j] else "hangs on the inputs",
+        ]
+        for j, sid in enumerate(mc.ids)
+    ]
+    m = _u(data, "m")
+    return Table(
+        f"Monte Carlo: {mc.samples} draws, seed {mc.seed}",
+        [
+            "segment",
+            "verdict",
+            "P(refer)",
+            "P(marginal)",
+            "P(clear)",
+            f"mean L ({m})",
+            f"90 % L ({m})",
+            "verdict is",
+        ],
+        rows,
+        "Each input drawn from a normal distribution: mean = the file's value, "
+        "standard deviation = half the sensitivity range; robust = the verdict holds in 90 % of draws.",
+    )
+
+
+def assumptions(data: ReportData) -> list[Table]:
+    c, r = data.corridor, data.result
+    fs = c.factor_set
+    general = Table(
+        "Screen",
+        ["item", "value"],
+        [
+            ["corridor", c.name],
+            ["date of report", data.date],
+            ["engine version", r.engine_version],
+            ["factor set", f"{fs.id}: {fs.name} ({fs.method})"],
+            ["factor set source", fs.source],
+            [
+                "eccentricity limits (fraction of L)",
+                f"soil {fs.eccentricity_limit_soil:g}, rock {fs.eccentricity_limit_rock:g}",
+            ],
+            [
+                "design life",
+                f"{c.design_life_years:g} years"
+                if c.design_life_years
+                else "rules preset (walls / abutments)",
+            ],
+            ["display units", data.display.system.upper()],
+        ],
+    )
+    case_fields = [f.name for f in dataclasses.fields(fs.cases[0])] if fs.cases else []
+    cases = Table(
+        "Load cases of the factor set",
+        case_fields,
+        [[_cell(getattr(case, f)) for f in case_fields] for case in fs.cases],
+    )
+    resistance = Table(
+        "Resistance factors", ["check", "factor"], [[k, f"{v:g}"] for k, v in fs.resistance.items()]
+    )
+    rules = Table(
+        "Screening rules",
+        ["rule", "value"],
+        [[f.name, _cell(getattr(c.rules, f.name))] for f in dataclasses.fields(c.rules)],
+    )
+    return [general, cases, resistance, rules, *_materials(data)]
+
+
+def _materials(data: ReportData) -> list[Table]:
+    """Every distinct fill, soil and reinforcement family the segments use, with values."""
+    c = data.corridor
+    out = []
+    for part, title in (
+        ("fill", "Reinforced fills"),
+        ("retained", "Retained fills"),
+        ("foundation", "Foundations"),
+    ):
+        seen: dict[object, list[str]] = {}
+        for s in c.segments:
+            seen.setdefault(getattr(s, part), []).append(s.id)
+        if not seen:
+            continue
+        sample = next(iter(seen))
+        names = [f.name for f in dataclasses.fields(sample) if f.name not in ("note", "name")]
+        rows = [[*(_cell(getattr(obj, n)) for n in names), _ids(ids)] for obj, ids in seen.items()]
+        out.append(Table(title, [*names, "segments"], rows))
+    fams: dict[Reinforcement, list[str]] = {}
+    for s in c.segments:
+        fams.setdefault(s.reinforcement, []).append(s.id)
+    for fam, ids in fams.items():
+        names = [f.name for f in dataclasses.fields(fam) if f.name not in ("grades", "note")]
+        rows = [[n, _cell(getattr(fam, n))] for n in names]
+        rows.append(["grades", "; ".join(_grade(g) for g in fam.grades)])
+        rows.append(["segments", _ids(ids)])
+        out.append(
+            Table(f"Reinforcement: {fam.id or fam.name or fam.material}", ["field", "value"], rows)
+        )
+    ranges = Table(
+        "Sensitivity ranges (±)",
+        ["input", "half-range"],
+        [[k, f"{v:g}"] for k, v in data.ranges.items()],
+    )
+    return [*out, ranges]
+
+
+def _grade(g) -> str:
+    values = [
+        f"{f.name} {getattr(g, f.name):g}"
+        for f in dataclasses.fields(g)
+        if isinstance(getattr(g, f.name), float)
+    ]
+    return f"{g.name} ({', '.join(values)})"
+
+
+def _ids(ids: list[str]) -> str:
+    return ", ".join(ids) if len(ids) <= 8 else f"{', '.join(ids[:6])} … ({len(ids)} segments)"
+
+
+def _cell(value: object) -> str:
+    if value is None:
+        return "—"
+    if isinstance(value, float):
+        return f"{value:g}"
+    if isinstance(value, tuple):
+        return ", ".join(str(v) for v in value)
+    if isinstance(value, Fill):
+        return value.id or value.name
+    return str(value)

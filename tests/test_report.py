@@ -1,0 +1,189 @@
+"""Reports: every segment id, the figures, the assumptions and the cautions are there.
+
+Common practice, no source: a report handed to a checker must name every segment it
+covers, show what it assumed and say it is not a design. The corridor is invented test
+data: four segments, one of them 13 m high (outside screening: referred, METHOD §7).
+"""
+
+from __future__ import annotations
+
+import base64
+import csv
+import io
+import re
+from html.parser import HTMLParser
+
+import pytest
+
+from screening import store
+from screening.engine import screen
+from screening.errors import InputError
+from screening.jsonout import CAUTION
+from screening.report import build_report_data, write_report
+
+TEXT = """
+schema = "wallscreen/1"
+[corridor]
+name = "Report test <&> corridor"
+factor_set = "aashto-lrfd"
+[defaults]
+fill = "granular-wellgraded"
+reinforcement = "steel-strip"
+traffic = "approach"
+{segments}
+"""
+SEGMENT = """
+[[segment]]
+id = "{id}"
+wall = "{wall}"
+chainage_start_m = {c0}
+chainage_end_m = {c1}
+height_start_m = {h0}
+height_end_m = {h1}
+"""
+ROWS = [
+    ("N-01", "North", 0.0, 20.0, 2.0, 3.0),
+    ("N-02", "North", 20.0, 40.0, 3.0, 5.0),
+    ("N-03", "North", 40.0, 60.0, 5.0, 13.0),
+    ("S-01", "South", 0.0, 25.0, 1.5, 4.0),
+]
+
+
+@pytest.fixture(scope="module")
+def screened():
+    segs = "".join(
+        SEGMENT.format(id=i, wall=w, c0=c0, c1=c1, h0=h0, h1=h1) for i, w, c0, c1, h0, h1 in ROWS
+    )
+    corridor = store.loads(TEXT.format(segments=segs), "report.toml")
+    return corridor, screen(corridor)
+
+
+@pytest.fixture(scope="module")
+def html_text(screened, tmp_path_factory):
+    corridor, result = screened
+    out = tmp_path_factory.mktemp("report") / "r.html"
+    write_report(corridor, result, out)
+    return out.read_text(encoding="utf-8")
+
+
+class _Tags(HTMLParser):
+    VOID = {"meta", "img", "br", "hr", "link", "input"}
+
+    def __init__(self):
+        super().__init__()
+        self.stack: list[str] = []
+        self.errors: list[str] = []
+        self.images: list[str] = []
+
+    def handle_starttag(self, tag, attrs):
+        if tag == "img":
+            self.images.append(dict(attrs)["src"])
+        if tag not in self.VOID:
+            self.stack.append(tag)
+
+    def handle_endtag(self, tag):
+        if not self.stack or self.stack[-1] != tag:
+            self.errors.append(f"</{tag}> closes {self.stack[-1:] or 'nothing'}")
+        else:
+            self.stack.pop()
+
+
+def test_html_names_every_segment_and_carries_the_cautions(html_text, screened):
+    _, result = screened
+    for sid in result.ids:
+        assert f">{sid}<" in html_text
+    assert html_text.count(CAUTION) == 2  # top and bottom
+    assert "Report test &lt;&amp;&gt; corridor" in html_text  # names are escaped
+
+
+def test_html_is_well_formed_and_self_contained(html_text):
+    tags = _Tags()
+    tags.feed(html_text)
+    assert tags.errors == [] and tags.stack == []
+    assert not re.search(r'(src|href)="(?!data:|#)', html_text)  # nothing fetched from outside
+
+
+def test_html_embeds_a_long_section_per_wall_and_a_cross_section_per_flagged_segment(
+    html_text, screened
+):
+    _, result = screened
+    tags = _Tags()
+    tags.feed(html_text)
+    flagged = sum(v != "clear" for v in result.verdict)
+    assert flagged >= 1  # N-03 is 13 m high: referred
+    assert len(tags.images) == 2 + flagged  # North and South, then one per flagged segment
+    for src in tags.images:
+        assert src.startswith("data:image/png;base64,")
+        assert base64.b64decode(src.split(",", 1)[1])[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+def test_html_shows_assumptions_quantities_and_sensitivity(html_text, screened):
+    _, result = screened
+    assert "aashto-lrfd" in html_text and f"engine {result.engine_version}" in html_text
+    assert "Screening rules" in html_text and "rule_length_ratio" in html_text
+    assert "granular-wellgraded" in html_text and "2 strips/m" in html_text  # presets with values
+    assert "Quantities and rough cost" in html_text and "PLACEHOLDER RATES" in html_text
+    for i, v in enumerate(result.verdict):
+        if v != "clear":
+            assert f"Sensitivity of {result.ids[i]}" in html_text
+
+
+def test_markdown_report(screened, tmp_path):
+    corridor, result = screened
+    out = write_report(corridor, result, tmp_path / "r.md")
+    text = out.read_text(encoding="utf-8")
+    assert text.startswith("# Report test")
+    assert text.count(CAUTION) == 2
+    for sid in result.ids:
+        assert f"| {sid} |" in text
+
+
+def test_csv_report_one_row_per_segment_in_chosen_units(screened, tmp_path):
+    corridor, result = screened
+    si = write_report(corridor, result, tmp_path / "si.csv").read_text(encoding="utf-8")
+    us = write_report(corridor, result, tmp_path / "us.csv", units="us").read_text(encoding="utf-8")
+    assert si.startswith(f"# {CAUTION}")
+    rows_si = _rows(si)
+    rows_us = _rows(us)
+    assert [r["segment"] for r in rows_si] == list(result.ids)
+    # 1 ft = 0.3048 m exactly (NIST SP 811)
+    for a, b in zip(rows_si, rows_us, strict=True):
+        assert float(b["L_ft"]) == pytest.approx(float(a["L_m"]) / 0.3048, abs=2e-3)
+        assert a["verdict"] == b["verdict"]
+
+
+def _rows(text: str) -> list[dict[str, str]]:
+    body = "\n".join(line for line in text.splitlines() if not line.startswith("#"))
+    return list(csv.DictReader(io.StringIO(body)))
+
+
+def test_bad_output_paths_are_input_errors_and_old_reports_survive(screened, tmp_path):
+    corridor, result = screened
+    with pytest.raises(InputError, match="use .html, .md or .csv"):
+        write_report(corridor, result, tmp_path / "r.pdf")
+    with pytest.raises(InputError, match="folder for the report does not exist"):
+        write_report(corridor, result, tmp_path / "missing" / "r.csv")
+    target = tmp_path / "keep.csv"
+    target.write_text("old report")
+    with pytest.raises(InputError):
+        write_report(corridor, result, target, units="cubits")
+    assert target.read_text() == "old report"
+    write_report(corridor, result, target)
+    assert target.read_text().startswith("#") and list(tmp_path.glob(".keep.csv.*")) == []
+
+
+def test_report_data_refuses_a_screen_of_another_corridor(screened):
+    corridor, result = screened
+    import dataclasses
+
+    shorter = dataclasses.replace(corridor, segments=corridor.segments[:2])
+    with pytest.raises(InputError, match="does not belong"):
+        build_report_data(shorter, result)
+
+
+def test_monte_carlo_section_when_asked(screened, tmp_path):
+    corridor, result = screened
+    text = write_report(
+        corridor, result, tmp_path / "mc.md", monte_carlo_samples=10, seed=3
+    ).read_text()
+    assert "Monte Carlo: 10 draws, seed 3" in text
