@@ -7,6 +7,7 @@ from html import escape
 
 from screening import report_tables as tables
 from screening.report import CAUTION, ReportData
+from screening.report_assumptions import assumptions
 from screening.report_figures import VERDICT_COLOUR, cross_section_png, long_section_png, walls
 from screening.report_tables import Table
 
@@ -140,7 +141,7 @@ def render_html(data: ReportData) -> str:
     )
 
     add('<h2 id="assumptions">Assumptions</h2>')
-    for t in tables.assumptions(data):
+    for t in assumptions(data):
         add(table_html(t))
 
     add('<h2 id="cautions">Cautions</h2>')

@@ -7,6 +7,7 @@ import io
 
 from screening import report_tables as tables
 from screening.report import CAUTION, ReportData
+from screening.report_assumptions import assumptions
 from screening.report_tables import Table
 
 
@@ -54,7 +55,7 @@ def render_markdown(data: ReportData) -> str:
         "No referred or marginal segment to examine.\n"
     ]
     out += ["## Assumptions", ""]
-    out += [table_md(t) for t in tables.assumptions(data)]
+    out += [table_md(t) for t in assumptions(data)]
     out += ["## Cautions", "", f"> **{CAUTION}**", ""]
     return "\n".join(out)
 
