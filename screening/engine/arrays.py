@@ -186,6 +186,35 @@ def _resistance(factor_set: FactorSet, key: str) -> float:
         ) from None
 
 
+_NEEDS = {
+    "steel-strip": ("elements_per_m", "width_mm", "thickness_mm"),
+    "steel-grid": ("bars_per_m", "bar_diameter_mm"),
+    "geogrid": ("ultimate_strength_kn_m",),
+    "geotextile": ("ultimate_strength_kn_m",),
+}
+
+
+def _check_family(fam: Reinforcement) -> None:
+    """Every value the checks need is there, or a message that says which is missing."""
+    name = fam.id or fam.name or fam.material
+    if fam.material.startswith("steel") and fam.yield_strength_mpa is None:
+        raise EngineError(f"reinforcement {name!r}: steel needs yield_strength_mpa")
+    if fam.material == "steel-grid" and (
+        fam.transverse_bar_diameter_mm is None or fam.transverse_bar_spacing_mm is None
+    ):
+        raise EngineError(
+            f"reinforcement {name!r}: steel grids need transverse_bar_diameter_mm and "
+            "transverse_bar_spacing_mm (for F*)"
+        )
+    for grade in fam.grades:
+        missing = [k for k in _NEEDS[fam.material] if getattr(grade, k) is None]
+        if missing:
+            raise EngineError(
+                f"reinforcement {name!r}, grade {grade.name!r}: {fam.material} needs "
+                + ", ".join(missing)
+            )
+
+
 def _family_table(families: list[Reinforcement]) -> dict[str, np.ndarray]:
     """Per-family scalars and padded grade rows, read once per distinct family."""
     g = max((len(f.grades) for f in families), default=1) or 1
@@ -209,6 +238,7 @@ def _family_table(families: list[Reinforcement]) -> dict[str, np.ndarray]:
             )
         if not fam.grades:
             raise EngineError(f"reinforcement {fam.id or fam.name!r} has no grades")
+        _check_family(fam)
     return {
         "material": np.array([MATERIALS.index(f.material) for f in families], dtype=np.int64),
         "inextensible": np.array([f.kind == "inextensible" for f in families], dtype=bool),

@@ -100,10 +100,10 @@ class CheckValues:
 
 
 def ratio(capacity: FloatArray, demand: FloatArray) -> FloatArray:
-    """capacity / demand, CDR_CAP where nothing drives; clipped to [0, CDR_CAP]."""
+    """capacity / demand, CDR_CAP where nothing drives, 0 where a value is undefined; in [0, CDR_CAP]."""
     with np.errstate(divide="ignore", invalid="ignore"):
         r = np.where(demand > 1e-12, capacity / np.where(demand > 1e-12, demand, 1.0), CDR_CAP)
-    return np.clip(np.nan_to_num(r, nan=CDR_CAP, posinf=CDR_CAP), 0.0, CDR_CAP)
+    return np.clip(np.nan_to_num(r, nan=0.0, posinf=CDR_CAP), 0.0, CDR_CAP)  # NaN fails
 
 
 def worst_case(

@@ -87,7 +87,9 @@ def decide(
         for i in np.flatnonzero(mask).tolist():
             reasons[i].append(words(i))
 
-    ratio_l = length / h
+    # Python lists for the sentences: indexing numpy arrays one by one is slow.
+    length_l, ratio_l = length.tolist(), (length / h).tolist()
+    h_l, cdr_min_l, gov_l = h.tolist(), min_cdr.tolist(), governing.tolist()
     failed = np.zeros(n, dtype=bool)
     for name in names:
         cdr = checks[name].cdr
@@ -97,7 +99,8 @@ def decide(
         for i in np.flatnonzero(bad).tolist():
             where = f", {detail[i]}" if detail and detail[i] else ""
             reasons[i].append(
-                f"{name} CDR {cdr[i]:.2f} < 1.0 at L = {length[i]:.1f} m ({ratio_l[i]:.2f}H){where}"
+                f"{name} CDR {float(cdr[i]):.2f} < 1.0 at L = {length_l[i]:.1f} m "
+                f"({ratio_l[i]:.2f}H){where}"
             )
     for i in np.flatnonzero(sizing.exhausted).tolist():
         reasons[i].append(
@@ -110,29 +113,30 @@ def decide(
     tall = h > r.marginal_height_m + 1e-9
     refer = out_of_scope | failed | sizing.exhausted
     for i in np.flatnonzero(low_cdr & ~refer).tolist():
-        reasons[i].append(f"smallest CDR {min_cdr[i]:.2f} ({governing[i]}) < {r.marginal_cdr:g}")
+        reasons[i].append(f"smallest CDR {cdr_min_l[i]:.2f} ({gov_l[i]}) < {r.marginal_cdr:g}")
     for i in np.flatnonzero(long_l).tolist():
         reasons[i].append(
-            f"L = {length[i]:.1f} m is {ratio_l[i]:.2f}H > {r.marginal_length_ratio:g}H"
+            f"L = {length_l[i]:.1f} m is {ratio_l[i]:.2f}H > {r.marginal_length_ratio:g}H"
         )
     for i in np.flatnonzero(tall & ~out_of_scope).tolist():
-        reasons[i].append(f"design height {h[i]:.1f} m > {r.marginal_height_m:g} m")
+        reasons[i].append(f"design height {h_l[i]:.1f} m > {r.marginal_height_m:g} m")
     marginal = ~refer & (low_cdr | long_l | tall)
     clear = ~refer & ~marginal
     for i in np.flatnonzero(clear).tolist():
         reasons[i].append(
             f"every check passes with CDR ≥ {r.marginal_cdr:g} "
-            f"(smallest {min_cdr[i]:.2f}, {governing[i]})"
+            f"(smallest {cdr_min_l[i]:.2f}, {gov_l[i]})"
         )
     rule = ctx.geom.rule_length_m
     lengthened = length > rule + 1e-9
+    rule_l = rule.tolist()
     for i in np.flatnonzero(lengthened & ~sizing.exhausted).tolist():
         reasons[i].append(
-            f"L = {length[i]:.1f} m ({ratio_l[i]:.2f}H), lengthened by the checks "
-            f"from the rule-of-thumb {rule[i]:.1f} m"
+            f"L = {length_l[i]:.1f} m ({ratio_l[i]:.2f}H), lengthened by the checks "
+            f"from the rule-of-thumb {rule_l[i]:.1f} m"
         )
     for i in np.flatnonzero(~lengthened).tolist():
-        reasons[i].append(f"L = {length[i]:.1f} m ({ratio_l[i]:.2f}H) by rule of thumb")
+        reasons[i].append(f"L = {length_l[i]:.1f} m ({ratio_l[i]:.2f}H) by rule of thumb")
 
     verdict = np.where(refer, "refer", np.where(marginal, "marginal", "clear")).tolist()
     governing = np.where(out_of_scope, first_scope, governing).tolist()

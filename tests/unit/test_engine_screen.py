@@ -205,3 +205,12 @@ def test_nominal_layer_strengths_for_plug_ins() -> None:
         out["level_m"][0][mask[0]][-1], 0.375
     )  # bottom layer Sv/2 above the pad
     assert np.all(out["pullout_kn_m2"][mask] > 0)
+
+
+def test_incomplete_reinforcement_gets_a_clear_message() -> None:
+    from screening.engine.samples import STRIP
+    from screening.errors import EngineError
+
+    bad = replace(STRIP, yield_strength_mpa=None)
+    with pytest.raises(EngineError, match="steel needs yield_strength_mpa"):
+        screen(make_corridor([make_segment(0, reinforcement=bad)]), extra_checks=())
