@@ -23,7 +23,7 @@ COLUMNS: tuple[tuple[str, str, int], ...] = (
     ("heights", "Height m", 10),
     ("length", "L m", 5),
     ("ratio", "L/H", 5),
-    ("governing", "Governs", 12),
+    ("governing", "Governs", 15),
     ("cdr", "min CDR", 7),
     ("verdict", "Verdict", 10),
     ("fill", "Fill", 20),

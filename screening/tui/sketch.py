@@ -117,16 +117,18 @@ def draw_section(segment: Segment, res: SegmentResult, width: int = 64, height: 
     cv = _Canvas(width, height)
     face = col(0.0)
 
-    # ground behind the wall: level, or the backslope rising away from the top of the facing
-    for c in range(face, width):
+    # ground behind the wall (level, or the backslope rising from the top of the facing)
+    # and in front of the toe (level, or falling away): a line drawn low, middle or high
+    # in each cell, so a gentle slope reads as a slope rather than a staircase
+    for c in range(width):
         x = (c - face) * sx
-        y = h + min(math.tan(beta) * x, rise)
-        cv.put(c, row(y), "╱" if beta > 0 and math.tan(beta) * x < rise else "━", STYLES["ground"])
-    # ground in front of the toe, falling away on a toe slope
-    for c in range(0, face):
-        x = (c - face) * sx
-        y = d + math.tan(toe) * x
-        cv.put(c, row(y), "╲" if toe > 0 else "━", STYLES["ground"])
+        y = h + min(math.tan(beta) * x, rise) if c >= face else d + math.tan(toe) * x
+        exact = (y_max - y) / sy
+        r = round(exact)
+        frac = exact - r  # -0.5 (high in the cell) .. 0.5 (low)
+        sloped = (c >= face and beta > 0) or (c < face and toe > 0)
+        char = "━" if not sloped or abs(frac) < 1 / 6 else ("▁" if frac > 0 else "▔")
+        cv.put(c, top_rows + r, char, STYLES["ground"])
 
     # reinforced zone: back boundary, pad, layers
     back = col(length)
@@ -164,8 +166,7 @@ def draw_section(segment: Segment, res: SegmentResult, width: int = 64, height: 
         for c in range(start, min(width, back + (back - face) // 3 + 1), 2):
             y_top = h + min(math.tan(beta) * (c - face) * sx, rise)
             cv.put(c, row(y_top) - 1, "↓", STYLES["load"])
-        y_label = h + min(math.tan(beta) * (start - face) * sx, rise)
-        cv.write(start, max(row(y_label) - 3, 0), " + ".join(words), STYLES["load"])
+        cv.write(start, 0, " + ".join(words), STYLES["load"])
 
     # dimensions
     cv.write(back + 2, row(h * 0.5), f"L {res.length_m:.1f} m", STYLES["label"])

@@ -73,17 +73,29 @@ def test_line_of_maximum_tension_passes_through_each_layer(demo):
         assert (col - face) * scale == pytest.approx(layer.active_length_m, abs=1.5 * scale)
 
 
+def ground_row(lines: list[str], col: int) -> int:
+    """Row of the ground line in column ``col`` (heavy line or a low/high eighth block)."""
+    return next(r for r, ln in enumerate(lines) if ln[col] in "━▁▔")
+
+
 def test_backslope_toe_slope_and_traffic_are_drawn(demo):
     i = next(k for k, s in enumerate(demo.segments) if s.traffic != "none")
     seg, res = screened(demo, i, backslope_deg=0.0, toe_slope_deg=0.0)
-    level = draw_section(seg, res, W, H).plain
-    assert "╱" not in level and "╲" not in level
-    assert res.traffic_kpa > 0 and "↓" in level and f"traffic {res.traffic_kpa:.0f} kPa" in level
-    assert f"d {res.embedment_m:.2f} m" in level
+    level = draw_section(seg, res, W, H)
+    lines = grid(level)
+    face = lines[next(r for r, ln in enumerate(lines) if "█" in ln)].index("█")
+    assert ground_row(lines, face + 1) == ground_row(lines, W - 1)  # level behind
+    assert ground_row(lines, 0) == ground_row(lines, face - 1)  # level in front
+    assert res.traffic_kpa > 0 and "↓" in level.plain
+    assert f"traffic {res.traffic_kpa:.0f} kPa" in level.plain
+    assert f"d {res.embedment_m:.2f} m" in level.plain
     seg, res = screened(demo, i, backslope_deg=18.0, toe_slope_deg=15.0, traffic="none")
-    sloped = draw_section(seg, res, W, H).plain
-    assert "╱" in sloped and "╲" in sloped
-    assert "↓" not in sloped
+    sloped = draw_section(seg, res, W, H)
+    lines = grid(sloped)
+    face = lines[next(r for r, ln in enumerate(lines) if "█" in ln)].index("█")
+    assert ground_row(lines, W - 1) < ground_row(lines, face + 1) - 1  # rises behind
+    assert ground_row(lines, 0) > ground_row(lines, face - 1)  # falls away in front
+    assert "↓" not in sloped.plain
 
 
 def test_long_section_compresses_gaps_and_marks_the_cursor(demo):

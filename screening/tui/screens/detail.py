@@ -75,9 +75,9 @@ class DetailScreen(Screen[None]):
             with Vertical(id="detail-left"):
                 yield Static(checks_table(res), id="detail-checks")
                 yield Static(reasons(res), id="detail-reasons")
+                with VerticalScroll(id="detail-layers-box"):
+                    yield Static(layers_table(res), id="detail-layers")
             yield CrossSection(seg, res, id="detail-sketch")
-        with VerticalScroll(id="detail-layers-box"):
-            yield Static(layers_table(res), id="detail-layers")
         yield CautionLine(id="caution")
         yield Footer()
 

@@ -17,6 +17,8 @@ from screening.model import Corridor
 from screening.tui.cells import VERDICT_MARK, VERDICT_STYLE
 
 BLOCKS = " ▁▂▃▄▅▆▇█"
+CURSOR_STYLE = "bold #e8e4dc"
+"""The cursor's segment stands out in a light ink; its verdict stays in the marks below."""
 RANK = {"clear": 0, "marginal": 1, "refer": 2}
 NAMES = ("clear", "marginal", "refer")
 
@@ -102,7 +104,7 @@ def section_text(
             fill = int(np.clip(levels[c] - floor, 0, 8))
             style = VERDICT_STYLE[NAMES[col_rank[c]]] if col_rank[c] >= 0 else "dim"
             if on_cursor[c]:
-                style += " reverse" if fill else ""
+                style = CURSOR_STYLE
             out.append(BLOCKS[fill], style=style)
         out.append("\n")
     for c in range(width):
