@@ -8,7 +8,7 @@ later (compound, seismic) receive the same two arguments.
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, fields, is_dataclass, replace
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -18,6 +18,7 @@ from screening.engine.geometry import Geometry, build_geometry
 from screening.engine.loads import traffic_kpa
 from screening.engine.pressure import coulomb_ka, design_friction_deg, rankine_ka
 from screening.engine.result import CDR_CAP, FloatArray, IntArray
+from screening.model import Rules
 
 if TYPE_CHECKING:
     from screening.engine.internal import InternalSetup
@@ -57,6 +58,26 @@ class ScreenContext:
     @property
     def cases(self) -> CaseArrays:
         return self.a.cases
+
+    def take(self, rows: IntArray) -> ScreenContext:
+        """The same context for the segments ``rows`` only (for a costly check on a few)."""
+        return take_rows(self, np.asarray(rows, dtype=np.int64), self.n)
+
+
+def take_rows(obj, rows: IntArray, n: int):
+    """Rows of every per-segment array, list and nested record; shared records left whole."""
+    if isinstance(obj, CaseArrays | Rules):
+        return obj
+    if is_dataclass(obj) and not isinstance(obj, type):
+        changes = {f.name: take_rows(getattr(obj, f.name), rows, n) for f in fields(obj)}
+        if "n" in changes:
+            changes["n"] = len(rows)
+        return replace(obj, **changes)
+    if isinstance(obj, np.ndarray) and obj.ndim >= 1 and obj.shape[0] == n:
+        return obj[rows]
+    if isinstance(obj, list) and len(obj) == n:
+        return [obj[i] for i in rows.tolist()]
+    return obj
 
 
 def build_context(a: SegmentArrays) -> ScreenContext:

@@ -20,7 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from screening.engine import external, internal
-from screening.engine.context import CheckValues, ExtraCheck, ScreenContext
+from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, take_rows
 from screening.engine.internal import InternalSetup
 from screening.engine.result import BoolArray, FloatArray, IntArray
 
@@ -50,7 +50,34 @@ def sizing_cdr(
 
 
 def size_length(ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraCheck] = ()) -> Sizing:
-    """Vectorised bisection for the shortest passing L per segment."""
+    """Shortest passing L per segment: the built-in checks first, then any added checks.
+
+    Added checks (a slip-circle search is costly) are evaluated once over all segments at
+    the length the built-in checks need, and searched further only on the segments they
+    fail there: a second bisection from that length, on those rows alone.
+    """
+    sizing_extras = [c for c in extras if c.sizes_length]
+    core = _bisect(ctx, s, (), np.zeros(ctx.n, dtype=np.int64))
+    if not sizing_extras or ctx.n == 0:
+        return core
+    ok = np.ones(ctx.n, dtype=bool)
+    for check in sizing_extras:
+        ok &= check.values(ctx, core.length_m).cdr >= 1.0 - PASS_TOL
+    rows = np.flatnonzero(~ok & ~core.exhausted)
+    if rows.size == 0:
+        return core
+    sub_ctx = ctx.take(rows)
+    sub_s = take_rows(s, rows, ctx.n)
+    more = _bisect(sub_ctx, sub_s, sizing_extras, core.steps[rows])
+    length, exhausted, steps = core.length_m.copy(), core.exhausted.copy(), core.steps.copy()
+    length[rows], exhausted[rows], steps[rows] = more.length_m, more.exhausted, more.steps
+    return Sizing(length, exhausted, steps)
+
+
+def _bisect(
+    ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraCheck], start: IntArray
+) -> Sizing:
+    """Vectorised bisection on the step index, from ``start`` steps above the rule length."""
     g = ctx.geom
     step = ctx.a.rules.length_step_m
     top = np.maximum(np.round((g.max_length_m - g.rule_length_m) / step), 0).astype(np.int64)
@@ -61,11 +88,11 @@ def size_length(ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraChec
     def passes(j: IntArray) -> BoolArray:
         return sizing_cdr(ctx, s, extras, length_at(j)) >= 1.0 - PASS_TOL
 
-    lo = np.zeros(ctx.n, dtype=np.int64)
+    lo = np.minimum(start, top).astype(np.int64)
     hi = top.copy()
     ok_lo = passes(lo)
     ok_hi = passes(hi)
-    hi = np.where(ok_lo, 0, hi)
+    hi = np.where(ok_lo, lo, hi)
     active = ~ok_lo & ok_hi
     while True:
         active &= hi - lo > 1

@@ -172,13 +172,14 @@ def test_demo_corridor_screens_under_every_shipped_factor_set() -> None:
     presets = pytest.importorskip("screening.presets")
     corridor = store.load(presets.demo_corridor_path())
     for fs in presets.load_presets().factor_sets.values():
-        r = screen(corridor, fs)
+        r = screen(corridor, fs, extra_checks=())  # the built-in checks; plug-ins once below
         assert len(r) == len(corridor.segments) and r.factor_set == fs.id
         assert set(r.verdict) <= set(VERDICTS)
         for c in r.checks.values():
             assert np.all(np.isfinite(c.cdr)) and np.all(c.cdr > 0)
-    r = screen(corridor)
+    r = screen(corridor)  # with whatever plug-in checks are installed
     assert set(r.verdict) == set(VERDICTS)  # the demo shows all three outcomes
+    assert all(np.all(np.isfinite(c.cdr)) for c in r.checks.values())
 
 
 def test_nominal_layer_strengths_for_plug_ins() -> None:
@@ -214,3 +215,21 @@ def test_incomplete_reinforcement_gets_a_clear_message() -> None:
     bad = replace(STRIP, yield_strength_mpa=None)
     with pytest.raises(EngineError, match="steel needs yield_strength_mpa"):
         screen(make_corridor([make_segment(0, reinforcement=bad)]), extra_checks=())
+
+
+def test_costly_extra_check_searched_only_where_it_fails() -> None:
+    """The added check runs once on every segment, then only on the rows it fails."""
+    seen: list[int] = []
+
+    def picky(ctx, length_m):
+        seen.append(ctx.n)
+        demand = np.where(
+            np.array([i.endswith("1") for i in ctx.a.ids]), 0.95 * ctx.geom.design_height_m, 0.1
+        )
+        return demand, length_m, length_m / demand
+
+    segs = [make_segment(i) for i in range(4)]
+    r = screen(make_corridor(segs), extra_checks=[ExtraCheck("compound", picky)])
+    assert seen[0] == 4 and set(seen[1:-1]) == {1} and seen[-1] == 4
+    assert r.length_m[1] > r.length_m[0] == r.length_m[2] == r.length_m[3]
+    assert r.length_m[1] >= 0.95 * r.design_height_m[1]
