@@ -85,6 +85,14 @@ def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--segments", type=int, default=10_000)
     parser.add_argument("--repeat", type=int, default=5)
+    parser.add_argument(
+        "--plugins",
+        type=int,
+        default=0,
+        metavar="N",
+        help="also time a screen of the first N segments with the plug-in checks installed "
+        "(compound, seismic); they are costly, so N is kept small",
+    )
     args = parser.parse_args()
     corridor = generated_corridor(args.segments)
     screen(replace(corridor, segments=corridor.segments[:50]), extra_checks=())  # warm imports
@@ -109,6 +117,15 @@ def main() -> None:
     print(f"screen_iter (500)   {t_iter * 1000:8.1f} ms")
     print(f"per segment         {t_screen / args.segments * 1e6:8.1f} us")
     print(f"verdicts            {counts}")
+    if args.plugins:
+        from screening.engine import default_extra_checks
+
+        plug = default_extra_checks()
+        part = replace(corridor, segments=corridor.segments[: args.plugins])
+        t_plug, r_plug = best_of(1, lambda: screen(part, extra_checks=plug))
+        names = ", ".join(c.name for c in plug) or "none installed"
+        print(f"with plug-ins       {t_plug * 1000:8.1f} ms for {args.plugins} segments ({names})")
+        print(f"verdicts            {r_plug.counts()}")
 
 
 if __name__ == "__main__":
