@@ -27,11 +27,20 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from screening.engine import screen
-from screening.engine.samples import ASD, GEOGRID, GRID, LRFD, STRIP, make_corridor, make_segment
+from screening.engine.samples import (
+    ASD,
+    DA1,
+    GEOGRID,
+    GRID,
+    LRFD,
+    STRIP,
+    make_corridor,
+    make_segment,
+)
 from screening.model import VERDICTS, Fill, Foundation, Soil
 
 FAMILIES = st.sampled_from([STRIP, GRID, GEOGRID])
-FACTOR_SETS = st.sampled_from([LRFD, ASD])
+FACTOR_SETS = st.sampled_from([LRFD, ASD, DA1])
 
 
 @st.composite
