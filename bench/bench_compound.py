@@ -25,8 +25,9 @@ os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 
 import numpy as np  # noqa: E402
 
-from screening.engine.compound import WallSlipInput, compound_check  # noqa: E402
+from screening.engine.slip_check import compound_check
 from screening.engine.slip_search import FINE, STANDARD, SearchDensity  # noqa: E402
+from screening.engine.slip_wall import WallSlipInput  # noqa: E402
 
 
 def invented_walls(n: int, seed: int = 7) -> WallSlipInput:

@@ -57,6 +57,8 @@ class SearchDensity:
     moves: int = 26
     """Pattern-search neighbours: 26 (all), 14 (axes and corners) or 6 (axes)."""
     starts: int = 2
+    single_precision: bool = True
+    """Search in float32 (half the memory traffic); the final circles are evaluated in float64."""
     """Best grid circles of each family the pattern search starts from."""
     circles_per_chunk: int = 48
     """Circles evaluated together per segment (bounds memory: n x chunk x slices)."""
@@ -90,6 +92,21 @@ FINE = SearchDensity(
 )
 """A dense search used only as the reference in the benchmark and tests."""
 
+WARM = SearchDensity(
+    exit_fractions=(0.0,),
+    entry_fractions_of_length=(),
+    entry_beyond_heights=(),
+    angles_deg=(),
+    slices=STANDARD.slices,
+    search_slices=STANDARD.search_slices,
+    refine_steps=5,
+    moves=14,
+    starts=3,
+    circles_per_chunk=STANDARD.circles_per_chunk,
+)
+"""Refinement from known circles (the same segment at other lengths): its grid is the critical
+circles found so far, each family's and every mode's, searched with small steps."""
+
 
 @dataclass(frozen=True)
 class Bounds:
@@ -113,6 +130,8 @@ class CriticalCircle:
     radius_m: FloatArray
     x_exit_m: FloatArray
     x_entry_m: FloatArray
+    angle_rad: FloatArray
+    """Angle the arc subtends at the centre (with x_exit_m, x_entry_m: the search parameters)."""
     converged: BoolArray
     found: BoolArray
 
@@ -143,6 +162,7 @@ _FIELDS = (
     "radius_m",
     "x_exit_m",
     "x_entry_m",
+    "angle_rad",
     "converged",
     "found",
 )
@@ -298,11 +318,14 @@ def search(
     """
     n = section.n
     kh = np.zeros(n) if kh is None else np.asarray(kh, dtype=np.float64)
-    fast = (_as32(section), _as32(soils), _as32(layers))
-    kh32 = kh.astype(np.float32)
+    if density.single_precision:
+        fast = (_as32(section), _as32(soils), _as32(layers))
+        kh32 = kh.astype(np.float32)
+    else:
+        fast, kh32 = (section, soils, layers), kh
     coarse = replace(density, slices=density.search_slices)
     grid = _clip_params(grid, bounds)
-    f, _, cls, _ = _evaluate_params(*fast, grid.astype(np.float32), coarse, kh32)
+    f, _, cls, _ = _evaluate_params(*fast, grid.astype(kh32.dtype), coarse, kh32)
     tried = grid.shape[1]
     if initial_steps is None:
         initial_steps = np.stack(
@@ -317,21 +340,25 @@ def search(
     fam_f = np.full((n, 2), np.inf)
     fam_p = np.zeros((n, 2, 3))
     fam_f, fam_p = _keep_family_best(fam_f, fam_p, f, cls, grid)
-    # Pattern search from the ``starts`` best grid circles, whatever their family.
+    # Pattern search from the ``starts`` best grid circles, whatever their family, and from
+    # the best grid circle of each family kept within that family.
     order = _diverse_starts(f, start_groups, density.starts)  # (n, k)
-    k = order.shape[1]
-    bp = np.take_along_axis(grid, order[..., None], 1)  # (n, k, 3)
-    bf = np.take_along_axis(f, order, 1).astype(np.float64)
+    free = order.shape[1]
+    bp = np.concatenate([np.take_along_axis(grid, order[..., None], 1), fam_p], axis=1)
+    bf = np.concatenate([np.take_along_axis(f, order, 1).astype(np.float64), fam_f], axis=1)
+    k = bp.shape[1]
+    family = np.array([INVALID] * free + [COMPOUND, GLOBAL])  # INVALID: any family
     steps = np.repeat(initial_steps[:, None, :], k, axis=1)
     moves = {26: _MOVES, 14: _CORNER_MOVES}.get(density.moves, _AXIS_MOVES)
     n_moves = moves.shape[0]
+    wanted = np.repeat(family, n_moves)[None, :]
     for _ in range(density.refine_steps):
         cand = bp[:, :, None, :] + moves[None, None] * steps[:, :, None, :]  # (n, k, M, 3)
         cand = _clip_params(cand.reshape(n, k * n_moves, 3), bounds)
-        cf, _, ccls, _ = _evaluate_params(*fast, cand.astype(np.float32), coarse, kh32)
+        cf, _, ccls, _ = _evaluate_params(*fast, cand.astype(kh32.dtype), coarse, kh32)
         tried += k * n_moves
         fam_f, fam_p = _keep_family_best(fam_f, fam_p, cf, ccls, cand)
-        cf = cf.reshape(n, k, n_moves)
+        cf = np.where((wanted == INVALID) | (ccls == wanted), cf, np.inf).reshape(n, k, n_moves)
         j = np.argmin(cf, axis=-1)
         pick = np.take_along_axis(cf, j[..., None], -1)[..., 0]
         better = np.isfinite(pick) & (pick < bf - 1e-6)
@@ -362,6 +389,7 @@ def search(
             radius_m=bgeo[:, k, 2] + nan,
             x_exit_m=bp[:, k, 0] + nan,
             x_entry_m=bp[:, k, 1] + nan,
+            angle_rad=bp[:, k, 2] + nan,
             converged=bok[:, k] | ~found,
             found=found,
         )

@@ -20,6 +20,7 @@ import numpy as np
 
 from screening.engine.context import CheckValues, ScreenContext
 from screening.engine.result import BoolArray, FloatArray
+from screening.engine.seismic import mo_invalid
 from screening.engine.sizing import Sizing
 
 
@@ -58,6 +59,10 @@ def _scope(ctx: ScreenContext) -> list[tuple[str, BoolArray, Callable[[int], str
          "(2H:1V): outside screening"),
         ("seismic", a.seismic_kh > r.max_seismic_kh + 1e-12,
          lambda i: f"seismic kh {a.seismic_kh[i]:.2f} > {r.max_seismic_kh:g}: outside screening"),
+        # Added with the seismic check (engine/seismic.py): M-O without a solution.
+        ("seismic", mo_invalid(ctx),
+         lambda i: "Mononobe-Okabe has no solution (phi - psi - beta < 0): the retained "
+         "soil is not stable under the design shaking, outside screening"),
         ("arrangement", arrangement != "single",
          lambda i: f"{arrangement[i]} walls: outside screening"),
     ]  # fmt: skip
