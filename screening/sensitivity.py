@@ -198,15 +198,21 @@ def segment_sensitivity(
     ranges: dict[str, float] | None = None,
     factor_set: FactorSet | None = None,
     result: CorridorResult | None = None,
+    extra_checks: Sequence | None = None,
 ) -> list[Sensitivity]:
     """Inputs of segment ``i`` ranked by how much they matter (see module docstring).
 
     ``result``: a screen of ``corridor`` already at hand (only its traffic is read);
     ``ranges``: half-ranges by input key (default: presets/sensitivity.toml).
     """
-    return corridor_sensitivity(corridor, [i], ranges=ranges, factor_set=factor_set, result=result)[
-        i
-    ]
+    return corridor_sensitivity(
+        corridor,
+        [i],
+        ranges=ranges,
+        factor_set=factor_set,
+        result=result,
+        extra_checks=extra_checks,
+    )[i]
 
 
 def corridor_sensitivity(
@@ -216,8 +222,13 @@ def corridor_sensitivity(
     ranges: dict[str, float] | None = None,
     factor_set: FactorSet | None = None,
     result: CorridorResult | None = None,
+    extra_checks: Sequence | None = None,
 ) -> dict[int, list[Sensitivity]]:
-    """:func:`segment_sensitivity` of several segments, all variants in one engine call."""
+    """:func:`segment_sensitivity` of several segments, all variants in one engine call.
+
+    ``extra_checks`` goes to the engine (None: every check, compound search included;
+    ``()``: the core checks only, many times faster but blind to compound stability).
+    """
     ranges = load_ranges() if ranges is None else ranges
     indices = list(dict.fromkeys(indices))
     if not indices:
@@ -226,7 +237,9 @@ def corridor_sensitivity(
         picked = dataclasses.replace(
             corridor, segments=tuple(corridor.segments[i] for i in indices)
         )
-        traffic = dict(zip(indices, screen(picked, factor_set).traffic_kpa.tolist(), strict=True))
+        traffic = dict(
+            zip(indices, screen(picked, factor_set, ()).traffic_kpa.tolist(), strict=True)
+        )
     else:
         traffic = {i: float(result.traffic_kpa[i]) for i in indices}
     plans = {}
@@ -238,7 +251,7 @@ def corridor_sensitivity(
         variants.append(seg)
         for p, _, lo, hi in plan:
             variants += [p.put(seg, lo), p.put(seg, hi)]
-    run = screen(dataclasses.replace(corridor, segments=tuple(variants)), factor_set)
+    run = screen(dataclasses.replace(corridor, segments=tuple(variants)), factor_set, extra_checks)
     return {i: _rank(run, first, plan) for i, (first, plan) in plans.items()}
 
 
@@ -333,8 +346,9 @@ def monte_carlo(
     """Probability of each verdict per segment over ``n_samples`` draws of every input.
 
     One engine call screens ``n_samples × n`` segments (rows sample-major). Cost grows
-    with that product: about 0.1 ms per segment-sample for the core checks on these
-    machines, more with the compound search (``extra_checks=()`` leaves it out).
+    with that product: measured about 0.2 ms per segment-sample with the core checks and
+    5-10 ms with the compound search (bench/bench_corridor_tools.py); ``extra_checks=()``
+    leaves the compound search out when speed matters more than compound stability.
     """
     if n_samples < 1:
         raise ValueError("n_samples must be at least 1")

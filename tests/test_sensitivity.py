@@ -1,5 +1,9 @@
 """Sensitivity ranks the input the method says dominates first; Monte Carlo is seeded.
 
+The ranking tests screen with the core checks only (``extra_checks=()``: sliding,
+eccentricity, bearing, pullout, rupture) so that the premise rests on the formulas
+cited below; the compound search has its own tests.
+
 Corridors are invented test data. The expected rankings follow from the method's
 formulas (METHOD.md), not from recorded engine output:
 
@@ -58,14 +62,16 @@ foundation = {foundation}
     return store.loads(text, "s.toml")
 
 
+CORE = ()
+"""No extra checks: the core method only."""
 WEAK = "{ unit_weight_kn_m3 = 19.0, friction_deg = 24.0 }"
 FIRM = "{ unit_weight_kn_m3 = 20.0, friction_deg = 38.0 }"
 
 
 def test_foundation_friction_dominates_a_bearing_governed_wall():
     c = _corridor(WEAK)
-    assert screen(c).governing[0] == "bearing"  # the premise of the ranking
-    ranked = segment_sensitivity(c, 0)
+    assert screen(c, extra_checks=CORE).governing[0] == "bearing"  # the premise of the ranking
+    ranked = segment_sensitivity(c, 0, extra_checks=CORE)
     top = ranked[0]
     assert top.key == "foundation_friction_deg"
     assert top.flips
@@ -75,15 +81,15 @@ def test_foundation_friction_dominates_a_bearing_governed_wall():
 
 def test_fill_friction_dominates_a_pullout_governed_strip_wall():
     c = _corridor(FIRM)
-    assert screen(c).governing[0] == "pullout"
-    ranked = segment_sensitivity(c, 0)
+    assert screen(c, extra_checks=CORE).governing[0] == "pullout"
+    ranked = segment_sensitivity(c, 0, extra_checks=CORE)
     assert ranked[0].key == "fill_friction_deg"
     assert ranked[0].min_cdr_low < ranked[0].min_cdr_high  # lower φ, less pullout margin
 
 
 def test_inputs_that_do_not_apply_are_left_out_and_a_deep_water_table_does_nothing():
     c = _corridor(FIRM)  # drained foundation (no cu), water table 20 m down (model default)
-    ranked = {s.key: s for s in segment_sensitivity(c, 0)}
+    ranked = {s.key: s for s in segment_sensitivity(c, 0, extra_checks=CORE)}
     assert "foundation_undrained_strength_kpa" not in ranked
     # C_wγ = 1 once the water is 1.5 B' or more below the base [METHOD §4, mem]: 18-22 m is far
     water = ranked["water_depth_m"]
@@ -102,8 +108,8 @@ def test_ranges_preset_loads_and_names_only_known_inputs(tmp_path):
 
 def test_monte_carlo_is_reproducible_and_sums_to_one():
     c = _corridor(WEAK, heights=(4.0, 6.0))
-    a = monte_carlo(c, 40, seed=7)
-    b = monte_carlo(c, 40, seed=7)
+    a = monte_carlo(c, 40, seed=7, extra_checks=CORE)
+    b = monte_carlo(c, 40, seed=7, extra_checks=CORE)
     np.testing.assert_array_equal(a.p_refer, b.p_refer)
     np.testing.assert_array_equal(a.length_mean_m, b.length_mean_m)
     np.testing.assert_allclose(a.p_refer + a.p_marginal + a.p_clear, 1.0)
@@ -127,11 +133,22 @@ def test_monte_carlo_without_spread_gives_the_base_verdict_and_scope_refers_alwa
     (H > 12 m refers whatever the soils, METHOD §7), so P(refer) = 1 with any spread."""
     c = _corridor(FIRM, heights=(4.0, 13.0))
     base = screen(c)
-    still = monte_carlo(c, 3, seed=1, ranges={k: 0.0 for k in INPUT_KEYS})
+    still = monte_carlo(c, 3, seed=1, ranges={k: 0.0 for k in INPUT_KEYS})  # every check
     for j, v in enumerate(base.verdict):
         assert {"clear": still.p_clear, "marginal": still.p_marginal, "refer": still.p_refer}[v][
             j
         ] == 1.0
-    spread = monte_carlo(c, 30, seed=1)
+    spread = monte_carlo(c, 30, seed=1, extra_checks=CORE)
     assert spread.p_refer[1] == 1.0
     assert spread.robust()[1]
+
+
+def test_batched_sensitivity_equals_one_segment_at_a_time():
+    """Screening is per segment, so putting every segment's variants in one engine call
+    must give exactly what one call per segment gives."""
+    from screening.sensitivity import corridor_sensitivity
+
+    c = _corridor(WEAK, heights=(3.0, 6.0, 8.0))
+    both = corridor_sensitivity(c, [0, 2], extra_checks=CORE)
+    for i in (0, 2):
+        assert both[i] == segment_sensitivity(c, i, extra_checks=CORE)
