@@ -75,13 +75,18 @@ def test_layer_force_is_the_least_of_rupture_and_the_two_pullouts():
         np.zeros(1),
     )
     xc, yc, r = 0.0, 8.0, 7.0
-    circles = Circles(*(np.array([[v]]) for v in (-6.0, 6.0, 0.0, 6.0, xc, yc, r)), np.array([[True]]))
+    circles = Circles(
+        *(np.array([[v]]) for v in (-6.0, 6.0, 0.0, 6.0, xc, yc, r)), np.array([[True]])
+    )
     y = 2.0
     x_cut = xc + np.sqrt(r**2 - (y - yc) ** 2)  # 3.606 m: inside 0 < x < L
     beyond, front = 4.0 - x_cut, x_cut - 0.0
     for rupture, pullout, facing in ((500.0, 30.0, 0.0), (5.0, 30.0, 0.0), (500.0, 30.0, 500.0)):
         layers = SlipLayers(
-            np.array([[y]]), np.array([[True]]), np.array([[rupture]]), np.array([[pullout]]),
+            np.array([[y]]),
+            np.array([[True]]),
+            np.array([[rupture]]),
+            np.array([[pullout]]),
             np.array([[facing]]),
         )
         expected = min(rupture, pullout * beyond, pullout * front + facing) * (yc - y)
@@ -101,7 +106,10 @@ def test_soft_clay_fails_global_and_dense_sand_passes():
 
 def test_stronger_reinforcement_never_lowers_the_compound_cdr():
     """Physical sense (common practice, no source): stronger layers hold more."""
-    cdr = [least_cdr(compound_check(wall(rupture=t), "lrfd", LRFD))[0] for t in (5.0, 20.0, 60.0, 200.0)]
+    cdr = [
+        least_cdr(compound_check(wall(rupture=t), "lrfd", LRFD))[0]
+        for t in (5.0, 20.0, 60.0, 200.0)
+    ]
     assert all(b >= a - 1e-3 for a, b in zip(cdr, cdr[1:], strict=False))
     assert cdr[-1] > cdr[0]
 
@@ -109,7 +117,10 @@ def test_stronger_reinforcement_never_lowers_the_compound_cdr():
 def test_seismic_coefficient_never_raises_the_cdr():
     """Physical sense (common practice, no source): a pseudo-static kh only adds driving."""
     inp = wall()
-    cdr = [least_cdr(compound_check(inp, "lrfd", LRFD, kh=np.array([k])))[0] for k in (0.0, 0.05, 0.1, 0.2)]
+    cdr = [
+        least_cdr(compound_check(inp, "lrfd", LRFD, kh=np.array([k])))[0]
+        for k in (0.0, 0.05, 0.1, 0.2)
+    ]
     assert all(b <= a + 1e-3 for a, b in zip(cdr, cdr[1:], strict=False))
     assert cdr[-1] < cdr[0]
 
@@ -146,7 +157,9 @@ def test_partial_factors_divide_the_strength():
     factored strength is close to F / 1.25 (not exact: the critical circle moves)."""
     inp = wall(rupture=1e4)
     unfactored = compound_check(inp, "lrfd", {"compound": 1.0})
-    c2 = dataclasses.make_dataclass("Case", ["name", "ev", "es", "ls", "tan_phi", "cohesion", "undrained", "checks"])
+    c2 = dataclasses.make_dataclass(
+        "Case", ["name", "ev", "es", "ls", "tan_phi", "cohesion", "undrained", "checks"]
+    )
     case = c2("DA1-C2", 1.0, 1.0, 1.3, 1.25, 1.25, 1.4, ("compound",))
     factored = compound_check(inp, "partial-factor", {"compound": 1.0}, cases=[case])
     ratio = unfactored.compound.factor[0] / factored.compound.factor[0]
