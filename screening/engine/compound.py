@@ -96,40 +96,58 @@ LIBRARY = 6
 class _Memo:
     """Results of the slip search per segment and length within one screen.
 
-    Sizing asks for every check at several trial lengths. The search runs once per segment
-    and length; a segment that already passed at a shorter length is answered with that
-    result (compound stability does not fall as the reinforcement gets longer), so in a
-    screen most segments are searched once, at their rule length.
+    Sizing asks for every check at several trial lengths, on all segments and then on the
+    few that fail (a context with those rows only); rows are matched by segment id, so both
+    share one memo. The search runs once per segment and length; a segment that already
+    passed at a shorter length is answered with that result (compound stability does not
+    fall as the reinforcement gets longer), so most segments are searched once, at the
+    length the built-in checks need; the others start from the circles already found.
     """
 
-    def __init__(self) -> None:
-        self.length = None
-        self.cdr = None
-        self.params = None
+    def __init__(self, ids: list[str]) -> None:
+        self.ids = np.asarray(ids, dtype=str)
+        self.order = np.argsort(self.ids, kind="stable")
+        self.sorted_ids = self.ids[self.order]
+        n = len(ids)
+        self.length = np.full(n, np.nan)
+        self.cdr = np.full(n, -np.inf)
+        self.params = np.full((n, LIBRARY, 3), np.nan)
         self.values: dict[str, np.ndarray] = {}
 
-    def get(self, ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
+    def rows(self, ids: list[str]) -> np.ndarray | None:
+        """Rows of this memo for ``ids`` (None when some id is not in it)."""
+        want = np.asarray(ids, dtype=str)
+        if want.size == 0:
+            return np.zeros(0, dtype=np.int64)
+        pos = np.clip(np.searchsorted(self.sorted_ids, want), 0, len(self.sorted_ids) - 1)
+        if self.sorted_ids.size == 0 or not np.all(self.sorted_ids[pos] == want):
+            return None
+        return self.order[pos]
+
+    def get(
+        self, ctx: ScreenContext, length_m: FloatArray, rows: np.ndarray
+    ) -> dict[str, np.ndarray]:
         length = np.asarray(length_m, dtype=np.float64)
-        n = ctx.n
-        if self.length is None:
-            self.length = np.full(n, np.nan)
-            self.cdr = np.full(n, -np.inf)
-            self.values = {}
-        same = np.abs(self.length - length) < 1e-9
-        passed_shorter = (self.length < length) & (self.cdr >= 1.0)
+        n = len(self.ids)
+        known = self.length[rows]
+        same = np.abs(known - length) < 1e-9
+        passed_shorter = (known < length) & (self.cdr[rows] >= 1.0)
         todo = np.flatnonzero(~(same | passed_shorter))
         if todo.size:
             inp = slip_input(ctx, length).take(todo)
-            warm = self.params[todo] if self.params is not None else None
+            target = rows[todo]
             found = compound_check(
-                inp, ctx.a.method, ctx.a.resistance, _case_rows(ctx), STANDARD, warm=warm
+                inp,
+                ctx.a.method,
+                ctx.a.resistance,
+                _case_rows(ctx),
+                STANDARD,
+                warm=self.params[target],
             )
             fresh = _flatten(found)
             # Keep every critical circle found (a library of modes, oldest dropped first).
             params = np.stack([found.compound.params, found.global_.params], axis=1)
-            if self.params is None:
-                self.params = np.full((n, LIBRARY, 3), np.nan)
-            self.params[todo] = np.concatenate([params, self.params[todo]], axis=1)[:, :LIBRARY]
+            self.params[target] = np.concatenate([params, self.params[target]], axis=1)[:, :LIBRARY]
             for key, value in fresh.items():
                 if key not in self.values:
                     self.values[key] = (
@@ -137,10 +155,10 @@ class _Memo:
                         if value.dtype != object
                         else np.full(n, "", dtype=object)
                     )
-                self.values[key][todo] = value
-            self.length[todo] = length[todo]
-            self.cdr[todo] = np.minimum(fresh["compound_cdr"], fresh["global_cdr"])
-        return self.values
+                self.values[key][target] = value
+            self.length[target] = length[todo]
+            self.cdr[target] = np.minimum(fresh["compound_cdr"], fresh["global_cdr"])
+        return {key: value[rows] for key, value in self.values.items()}
 
 
 def _case_rows(ctx: ScreenContext) -> list[Factors]:
@@ -175,21 +193,27 @@ def _flatten(found: CompoundResult) -> dict[str, np.ndarray]:
 
 
 _MEMOS: dict[int, tuple[weakref.ref, _Memo]] = {}
+"""One memo per screen, keyed by its load-case record (shared by a context and its subsets)."""
 
 
-def _memo(ctx: ScreenContext) -> _Memo:
+def _lookup(ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
     for key in [k for k, (ref, _) in _MEMOS.items() if ref() is None]:
         del _MEMOS[key]
-    entry = _MEMOS.get(id(ctx))
-    if entry is None or entry[0]() is not ctx:
-        entry = (weakref.ref(ctx), _Memo())
-        _MEMOS[id(ctx)] = entry
-    return entry[1]
+    owner = ctx.a.cases
+    entry = _MEMOS.get(id(owner))
+    rows = None
+    if entry is not None and entry[0]() is owner:
+        rows = entry[1].rows(ctx.a.ids)
+    if rows is None:
+        entry = (weakref.ref(owner), _Memo(list(ctx.a.ids)))
+        _MEMOS[id(owner)] = entry
+        rows = np.arange(ctx.n)
+    return entry[1].get(ctx, length_m, rows)
 
 
 def _family_values(family: str):
     def evaluate(ctx: ScreenContext, length_m: FloatArray) -> tuple:
-        v = _memo(ctx).get(ctx, length_m)
+        v = _lookup(ctx, length_m)
         converged = v[f"{family}_converged"]
         found = v[f"{family}_found"]
         # A critical circle whose iteration did not settle is not trusted: the segment fails
@@ -223,7 +247,7 @@ def _family_values(family: str):
 def _report(ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
     """Critical circles at the chosen L for CorridorResult.extras (coordinates: x from the
     face into the fill, y above the base of the reinforced zone, metres)."""
-    v = _memo(ctx).get(ctx, length_m)
+    v = _lookup(ctx, length_m)
     out = {}
     for fam in ("compound", "global"):
         out[f"{fam}_circle_x_m"] = v[f"{fam}_centre_x_m"]
