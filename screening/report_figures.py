@@ -117,27 +117,46 @@ def long_section_png(
     return _png(fig)
 
 
+CIRCLE_KEYS = (("circle_x_m", "circle_y_m", "circle_r_m"), ("centre_x_m", "centre_y_m", "radius_m"))
+"""Suffixes of the extras that give a critical circle: ``compound_circle_x_m`` …"""
+
+
 def slip_circles(result: CorridorResult, i: int) -> list[tuple[str, float, float, float]]:
     """(name, centre x, centre y, radius) of each critical circle the screen reports.
 
-    Looks for extras named ``<name>centre_x_m`` with matching ``centre_y_m`` and
-    ``radius_m`` (e.g. ``compound_centre_x_m``); coordinates from the face (x, into the
-    fill) and the base of the reinforced zone (y, up), as the slip search uses them.
+    Reads extras named ``<name>_circle_x_m``, ``<name>_circle_y_m``, ``<name>_circle_r_m``
+    (or ``…centre_x_m``/``centre_y_m``/``radius_m``); coordinates from the face (x, into
+    the fill) and the base of the reinforced zone (y, up), as the slip search uses them.
     """
     out = []
     for key in result.extras:
-        if not key.endswith("centre_x_m"):
-            continue
-        prefix = key[: -len("centre_x_m")]
-        try:
-            x = float(np.asarray(result.extras[key])[i])
-            y = float(np.asarray(result.extras[prefix + "centre_y_m"])[i])
-            r = float(np.asarray(result.extras[prefix + "radius_m"])[i])
-        except (KeyError, IndexError, TypeError, ValueError):
-            continue
-        if all(math.isfinite(v) for v in (x, y, r)) and r > 0:
-            out.append((prefix.rstrip("_") or "critical", x, y, r))
+        for kx, ky, kr in CIRCLE_KEYS:
+            if not key.endswith(kx):
+                continue
+            prefix = key[: -len(kx)]
+            try:
+                x = float(np.asarray(result.extras[key])[i])
+                y = float(np.asarray(result.extras[prefix + ky])[i])
+                r = float(np.asarray(result.extras[prefix + kr])[i])
+            except (KeyError, IndexError, TypeError, ValueError):
+                continue
+            if all(math.isfinite(v) for v in (x, y, r)) and r > 0:
+                out.append((prefix.rstrip("_") or "critical", x, y, r))
     return out
+
+
+BENCH_M = 1.2
+"""Level bench in front of the face before a toe slope, as the slip search draws it."""
+
+
+def _ground_m(
+    x: np.ndarray, height_m: float, embedment_m: float, backslope: float, toe: float
+) -> np.ndarray:
+    """Ground level of the cross-section (tangents of the slopes given): in front, the
+    embedment level, then after a bench a toe slope falling one design height; behind,
+    the top of the wall and the backslope."""
+    fall = np.clip((-x - BENCH_M) * toe, 0.0, height_m)
+    return np.where(x < 0.0, embedment_m - fall, height_m + backslope * np.maximum(x, 0.0))
 
 
 def max_tension_line(seg: Segment, height_m: float) -> tuple[list[float], list[float]]:
@@ -164,16 +183,35 @@ def cross_section_png(
     front = max(3.0, 0.6 * big_h)
     back = length + max(3.0, 0.8 * big_h)
     beta = math.tan(math.radians(seg.backslope_deg))
-    # soils: foundation, reinforced zone, retained fill
-    ax.fill_between([s(-front), s(back)], [s(-0.35 * big_h)] * 2, [0, 0], color="#d6d0c4", lw=0)
-    ax.fill_between([s(-front), 0], [0, 0], [s(d), s(d)], color="#d6d0c4", lw=0)
-    ax.add_patch(_rect(0, 0, s(length), s(big_h), ZONE_COLOUR))
-    xs = np.array([length, back])
-    ax.fill_between(s(xs), [0, 0], s(big_h + beta * (xs - 0.0)), color="#efece6", lw=0)
-    ax.plot(
-        s(np.array([0.0, back])), s(big_h + beta * np.array([0.0, back])), color="#555555", lw=1
+    toe = math.tan(math.radians(seg.toe_slope_deg))
+    if toe > 0.0:
+        front = max(front, BENCH_M + big_h / toe + 1.0)
+    deep = -0.35 * big_h - (big_h if toe > 0.0 else 0.0)
+    arcs = []
+    for name, xc, yc, r in slip_circles(result, i):
+        t = np.linspace(np.pi, 2 * np.pi, 361)  # the lower half: where a slip surface runs
+        x, y = xc + r * np.cos(t), yc + r * np.sin(t)
+        y = np.where(y <= _ground_m(x, big_h, d, beta, toe) + 1e-9, y, np.nan)
+        if np.isfinite(y).any():
+            arcs.append((name, x, y))
+            front = max(front, -float(np.nanmin(np.where(np.isfinite(y), x, np.nan))) + 0.5)
+            back = max(back, float(np.nanmax(np.where(np.isfinite(y), x, np.nan))) + 0.5)
+            deep = min(deep, float(np.nanmin(y)) - 0.5)
+    # soils: foundation (its top is the ground in front, the base behind), reinforced
+    # zone, retained fill behind it and above it under a backslope
+    xf = np.linspace(-front, 0.0, 80)
+    ground_front = _ground_m(xf, big_h, d, beta, toe)
+    xa = np.concatenate([xf, [0.0, back]])
+    ax.fill_between(
+        s(xa), s(deep), s(np.concatenate([ground_front, [0.0, 0.0]])), color="#d6d0c4", lw=0
     )
-    ax.plot([s(-front), 0], [s(d), s(d)], color="#555555", lw=1)
+    xb = np.linspace(0.0, back, 40)
+    ax.fill_between(
+        s(xb), s(np.where(xb < length, big_h, 0.0)), s(big_h + beta * xb), color="#efece6", lw=0
+    )
+    ax.add_patch(_rect(0, 0, s(length), s(big_h), ZONE_COLOUR))
+    ax.plot(s(xb), s(big_h + beta * xb), color="#555555", lw=1)
+    ax.plot(s(xf), s(ground_front), color="#555555", lw=1)
     ax.plot([0, 0], [0, s(big_h)], color="#333333", lw=4, solid_capstyle="butt")  # facing
     ax.add_patch(_rect(s(-0.15), s(-0.15), s(0.45), s(0.15), "#999999"))  # levelling pad
     # layers and the line of maximum tension
@@ -182,10 +220,12 @@ def cross_section_png(
     ys = big_h - lay.depth_m[i][mask]
     la = lay.active_length_m[i][mask]
     names = result.grade_names[i]
-    for y, g in zip(ys, lay.grade_index[i][mask], strict=True):
+    grades = lay.grade_index[i][mask]
+    for k, (y, g) in enumerate(zip(ys, grades, strict=True)):
         ax.plot([0, s(length)], [s(y), s(y)], color=LAYER_COLOUR, lw=1.3)
-        label = names[g] if g >= 0 else "none strong enough"
-        ax.text(s(length) + s(0.1), s(y), label, fontsize=6, va="center", color=LAYER_COLOUR)
+        if k == 0 or grades[k - 1] != g:  # name the grade where it starts (top down)
+            label = names[g] if g >= 0 else "none strong enough"
+            ax.text(s(length) + s(0.1), s(y), label, fontsize=6, va="center", color=LAYER_COLOUR)
     lx, ly = max_tension_line(seg, big_h)
     ax.plot(
         s(np.array(lx)),
@@ -221,11 +261,15 @@ def cross_section_png(
             ls="-.",
             label="water table",
         )
-    for name, xc, yc, r in slip_circles(result, i):
-        t = np.linspace(0, 2 * np.pi, 241)
-        ax.plot(s(xc + r * np.cos(t)), s(yc + r * np.sin(t)), lw=1, label=f"{name} circle")
+    for (name, xc, yc, r), colour in zip(
+        slip_circles(result, i), ("#6b3fa0", "#2f7f6f", "#444444"), strict=False
+    ):
+        t = np.linspace(np.pi, 2 * np.pi, 361)  # the lower half: where a slip surface runs
+        x, y = xc + r * np.cos(t), yc + r * np.sin(t)
+        y = np.where(y <= _ground_m(x, big_h, d, beta, toe) + 1e-9, y, np.nan)
+        ax.plot(s(x), s(y), lw=1.2, color=colour, label=f"critical {name} circle")
     ax.set_xlim(s(-front), s(back))
-    ax.set_ylim(s(-0.35 * big_h), s(big_h * 1.35 + beta * back * 0.5))
+    ax.set_ylim(s(deep), s(big_h * 1.35 + beta * back * 0.5))
     ax.set_aspect("equal", adjustable="box")
     ax.set_xlabel(f"from the face ({unit})")
     ax.set_ylabel(f"above the base ({unit})")
@@ -236,7 +280,7 @@ def cross_section_png(
         loc="left",
         fontsize=9,
     )
-    ax.legend(fontsize=6, loc="upper right")
+    ax.legend(fontsize=6, loc="upper left")  # the air in front of the wall is empty
     return _png(fig)
 
 
