@@ -24,6 +24,7 @@ import numpy as np
 from screening.engine.context import CheckValues, ScreenContext, ratio, worst_case
 from screening.engine.pressure import vesic_factors
 from screening.engine.result import CDR_CAP, FloatArray
+from screening.engine.slip_wall import toe_slope_bearing_factors
 
 UNDRAINED_NC = 2.0 + np.pi
 """Prandtl's Nc for phi = 0 (Vesic 1973; AASHTO Table 10.6.3.1.2a-1 first row)."""
@@ -146,8 +147,10 @@ def bearing(
     nc, _, ngamma = vesic_factors(ctx.found_friction_deg)
     cw = water_factor(ctx.a.found_water_depth_m[:, None], width)
     gamma_f = ctx.a.found_unit_weight_kn_m3[:, None]
-    drained = ctx.found_cohesion_kpa * nc + 0.5 * gamma_f * width * ngamma * cw
-    undrained = UNDRAINED_NC * ctx.found_undrained_kpa
+    # Toe slope in front (engine/slip_wall.py, Vesic 1975 ground-inclination factors).
+    g_c, g_gamma, g_cu = toe_slope_bearing_factors(ctx.a.toe_slope_deg[:, None], ctx.found_friction_deg)
+    drained = ctx.found_cohesion_kpa * nc * g_c + 0.5 * gamma_f * width * ngamma * cw * g_gamma
+    undrained = UNDRAINED_NC * ctx.found_undrained_kpa * g_cu
     q_n = np.where(np.isnan(undrained), drained, np.fmin(drained, undrained))
     capacity = ctx.a.phi_bearing * q_n
     out = worst_case(ctx.cases, "bearing", sigma, capacity, ratio(capacity, sigma))

@@ -179,3 +179,27 @@ def wall_grid(inp: WallSlipInput, density: SearchDensity) -> tuple[FloatArray, B
         entry_max_m=length + 3.5 * h,
     )
     return grid, bounds
+
+
+def toe_slope_bearing_factors(
+    toe_slope_deg: FloatArray, friction_deg: FloatArray
+) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """Ground-inclination factors (g_c, g_gamma, g_c undrained) for a base beside a toe slope.
+
+    Vesic (1975) [pub, in Winterkorn & Fang, Foundation Engineering Handbook ch. 3; quoted in
+    Das, Principles of Foundation Engineering; values from memory]: with the ground falling at
+    beta (radians) from the edge of the base, g_q = g_gamma = (1 - tan beta)^2,
+    g_c = g_q - (1 - g_q) / (Nc tan phi) for phi > 0, and g_c = 1 - 2 beta / (pi + 2) for
+    phi = 0. Screening applies them in full, as if the base stood at the crest: the bench in
+    front of the face is ignored [cp, conservative].
+    """
+    beta = np.radians(np.clip(np.asarray(toe_slope_deg, dtype=np.float64), 0.0, 45.0))
+    phi = np.radians(np.asarray(friction_deg, dtype=np.float64))
+    g_q = (1.0 - np.tan(beta)) ** 2
+    tan_phi = np.tan(phi)
+    nq = np.exp(np.pi * tan_phi) * np.tan(np.pi / 4 + phi / 2) ** 2
+    small = tan_phi < 1e-9
+    nc_tan = np.where(small, 1.0, (nq - 1.0))  # Nc tan(phi) = Nq - 1
+    g_c = np.where(small, 1.0 - 2.0 * beta / (np.pi + 2.0), g_q - (1.0 - g_q) / nc_tan)
+    g_c_undrained = 1.0 - 2.0 * beta / (np.pi + 2.0)
+    return np.clip(g_c, 0.0, 1.0), g_q, g_c_undrained
