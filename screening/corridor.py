@@ -22,9 +22,16 @@ PROFILE_SUFFIXES = {".csv": "csv", ".txt": "csv", ".xml": "landxml", ".landxml":
 
 
 def read_profile(
-    path: str | Path, *, top_profile: str | None = None, toe_profile: str | None = None
+    path: str | Path,
+    *,
+    top_profile: str | None = None,
+    toe_profile: str | None = None,
+    notes: list[str] | None = None,
 ) -> list[ProfileLine]:
-    """Profile lines from a CSV or LandXML file, chosen by the file suffix."""
+    """Profile lines from a CSV or LandXML file, chosen by the file suffix.
+
+    What was passed over (LandXML alignments without both profiles) goes to ``notes``.
+    """
     suffix = Path(path).suffix.lower()
     kind = PROFILE_SUFFIXES.get(suffix)
     if kind is None:
@@ -38,7 +45,7 @@ def read_profile(
         return read_profile_csv(path)
     from screening.profile_xml import read_profile_xml
 
-    return read_profile_xml(path, top_profile=top_profile, toe_profile=toe_profile)
+    return read_profile_xml(path, top_profile=top_profile, toe_profile=toe_profile, skipped=notes)
 
 
 def _check_settings(
@@ -232,8 +239,8 @@ def corridor_from_profile(
         from screening.presets import load_presets
 
         rules = load_presets().rules
-    lines = read_profile(path, top_profile=top_profile, toe_profile=toe_profile)
     notes: list[str] = []
+    lines = read_profile(path, top_profile=top_profile, toe_profile=toe_profile, notes=notes)
     segments = segments_from_lines(
         lines,
         defaults,

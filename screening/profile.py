@@ -27,8 +27,11 @@ import math
 import re
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
+from pathlib import Path
 
 import numpy as np
+
+from screening.errors import InputError
 
 Piece = tuple[float, float, float, float]
 """(chainage_start_m, chainage_end_m, height_start_m, height_end_m)."""
@@ -51,6 +54,27 @@ class ProfileLine:
     """Exposed height at each chainage, m (>= 0)."""
     breaks_m: tuple[float, ...] = ()
     """Chainages marked in the profile itself where a segment must end."""
+
+
+# ------------------------------------------------------------------ reading
+
+
+def read_profile_text(path: str | Path) -> str:
+    """The profile file's text (UTF-8, a leading byte-order mark dropped), or an
+    InputError saying why it cannot be read."""
+    source = str(path)
+    try:
+        raw = Path(path).read_bytes()
+    except FileNotFoundError:
+        raise InputError("profile file not found", file=source) from None
+    except IsADirectoryError:
+        raise InputError("is a folder, not a profile file", file=source) from None
+    except OSError as err:
+        raise InputError(f"cannot read the profile ({err.strerror})", file=source) from None
+    try:
+        return raw.decode("utf-8-sig")
+    except UnicodeDecodeError as err:
+        raise InputError(f"not a UTF-8 text file (byte {err.start})", file=source) from None
 
 
 # ------------------------------------------------------------------ number parsing

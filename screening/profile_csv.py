@@ -27,7 +27,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from screening.errors import InputError
-from screening.profile import ProfileLine, parse_chainage, parse_number
+from screening.profile import ProfileLine, parse_chainage, parse_number, read_profile_text
 
 ALIASES = {
     "chainage_m": ("chainage_m", "chainage", "ch_m", "ch"),
@@ -110,12 +110,7 @@ def read_profile_csv(path: str | Path, *, text: str | None = None) -> list[Profi
     """
     source = str(path)
     if text is None:
-        try:
-            text = Path(path).read_text(encoding="utf-8-sig")
-        except FileNotFoundError:
-            raise InputError("profile file not found", file=source) from None
-        except UnicodeDecodeError as err:
-            raise InputError(f"not a UTF-8 text file ({err.reason})", file=source) from None
+        text = read_profile_text(path)
     delimiter = _sniff(text)
     decimal_comma = delimiter == ";"
     reader = csv.reader(io.StringIO(text), delimiter=delimiter)

@@ -31,7 +31,7 @@ from xml.parsers import expat
 import numpy as np
 
 from screening.errors import InputError
-from screening.profile import ProfileLine
+from screening.profile import ProfileLine, read_profile_text
 
 LINEAR_UNITS_M = {
     "meter": 1.0,
@@ -245,16 +245,17 @@ def read_profile_xml(
     text: str | None = None,
     top_profile: str | None = None,
     toe_profile: str | None = None,
+    skipped: list[str] | None = None,
 ) -> list[ProfileLine]:
-    """One :class:`ProfileLine` per alignment with a usable top and toe profile."""
+    """One :class:`ProfileLine` per alignment with a usable top and toe profile.
+
+    An alignment with no top or no toe profile (a centreline with only its design
+    profile, say) is passed over and said so in ``skipped``; none usable at all is an
+    InputError.
+    """
     source = str(path)
     if text is None:
-        try:
-            text = Path(path).read_text(encoding="utf-8")
-        except FileNotFoundError:
-            raise InputError("profile file not found", file=source) from None
-        except UnicodeDecodeError as err:
-            raise InputError(f"not a UTF-8 text file ({err.reason})", file=source) from None
+        text = read_profile_text(path)
     root, lines = _parse(text, source)
     if _local(root.tag) != "LandXML":
         raise InputError(
@@ -262,6 +263,7 @@ def read_profile_xml(
         )
     reader = _Reader(source, lines, _unit(root, source, lines))
     out: list[ProfileLine] = []
+    passed: list[InputError] = []
     for align in (e for e in root.iter() if _local(e.tag) == "Alignment"):
         if not any(_local(e.tag) == "Profile" for e in align):
             continue
@@ -275,9 +277,13 @@ def read_profile_xml(
         toe = _pick(reader, align, toe_profile, "ProfSurf", "toe")
         if top is None or toe is None:
             missing = "<ProfAlign> for the top" if top is None else "<ProfSurf> for the toe"
-            raise reader.error(
-                align, f"alignment {align.get('name')!r} has no {missing}; name the profiles to use"
+            passed.append(
+                reader.error(
+                    align,
+                    f"alignment {align.get('name')!r} has no {missing}; name the profiles to use",
+                )
             )
+            continue
         tx, ty = reader.design(top) if _local(top.tag) == "ProfAlign" else reader.surface(top)
         gx, gy = reader.design(toe) if _local(toe.tag) == "ProfAlign" else reader.surface(toe)
         lo, hi = max(tx[0], gx[0]), min(tx[-1], gx[-1])
@@ -290,7 +296,11 @@ def read_profile_xml(
             _height_line(align.get("name") or f"alignment {len(out) + 1}", tx, ty, gx, gy, lo, hi)
         )
     if not out:
+        if passed:
+            raise passed[0]
         raise InputError("no <Alignment> with a <Profile> in this LandXML file", file=source)
+    if skipped is not None:
+        skipped.extend(f"skipped {err.message}" for err in passed)
     return out
 
 

@@ -152,3 +152,47 @@ def test_bad_landxml(text, expected):
 def test_unknown_profile_name_lists_the_names_there():
     with pytest.raises(InputError, match="has no profile named 'road' for the top of the wall"):
         read_profile_xml(DATA / "approach.xml", top_profile="road")
+
+
+def test_alignment_without_a_ground_profile_is_passed_over_and_noted(tmp_path):
+    """A centreline exported with only its design profile gives no wall; the other does."""
+    text = APPROACH.replace(
+        '<Alignment name="No profile here" staStart="0" length="50"/>',
+        '<Alignment name="Centreline"><Profile><ProfAlign name="road"><PVI>0 10</PVI>'
+        "<PVI>50 11</PVI></ProfAlign></Profile></Alignment>",
+    )
+    skipped: list[str] = []
+    lines = read_profile_xml("two.xml", text=text, skipped=skipped)
+    assert [line.wall for line in lines] == ["East approach"]
+    assert skipped == [
+        "skipped alignment 'Centreline' has no <ProfSurf> for the toe; name the profiles to use"
+    ]
+    path = tmp_path / "two.xml"
+    path.write_text(text)
+    c = corridor_from_profile(path, name="Two", max_step_m=1.0, max_length_m=100.0)
+    assert "skipped alignment 'Centreline'" in c.note
+
+
+def test_step_in_the_ground_profile_and_a_circular_curve():
+    """A repeated station in PntList2D is a step (the ground drops 1 m at 60); a CircCurve
+    of length 40 m is read as the parabola of that length (same levels as ParaCurve)."""
+    text = APPROACH.replace(
+        "<PntList2D>0 99.0 200 99.0</PntList2D>",
+        "<PntList2D>0 99.0 60 99.0 60 98.0 200 98.0</PntList2D>",
+    )
+    (line,) = read_profile_xml("s.xml", text=text)
+    at60 = [h for c, h in zip(line.chainage_m, line.height_m, strict=True) if c == 60.0]
+    assert at60 == pytest.approx([3.4, 4.4])  # road 102.4 over ground 99 then 98
+    circ = APPROACH.replace(
+        '<ParaCurve length="40">', '<CircCurve length="40" radius="666.67">'
+    ).replace("</ParaCurve>", "</CircCurve>")
+    (a,) = read_profile_xml("c.xml", text=circ)
+    (b,) = read_profile_xml("p.xml", text=APPROACH)
+    assert a.height_m == b.height_m
+
+
+def test_a_folder_is_not_a_profile(tmp_path):
+    folder = tmp_path / "profile.xml"
+    folder.mkdir()
+    with pytest.raises(InputError, match="is a folder, not a profile file"):
+        read_profile_xml(folder)

@@ -187,3 +187,16 @@ def test_monte_carlo_section_when_asked(screened, tmp_path):
         corridor, result, tmp_path / "mc.md", monte_carlo_samples=10, seed=3
     ).read_text()
     assert "Monte Carlo: 10 draws, seed 3" in text
+
+
+def test_cross_sections_find_the_critical_circles_the_screen_reports(screened):
+    """Whatever slip families the engine checks, the figure finds their circles."""
+    from screening.report_figures import slip_circles
+
+    _, result = screened
+    families = [n for n in ("compound", "global") if n in result.checks]
+    for i in range(len(result)):
+        found = [c[0] for c in slip_circles(result, i)]
+        for name in families:
+            if float(result.checks[name].demand[i]) > 0:
+                assert name in found
