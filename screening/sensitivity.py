@@ -248,9 +248,13 @@ def corridor_sensitivity(
         seg = corridor.segments[i]
         plan = list(_variants(seg, traffic[i], ranges))
         plans[i] = (len(variants), plan)
-        variants.append(seg)
-        for p, _, lo, hi in plan:
-            variants += [p.put(seg, lo), p.put(seg, hi)]
+        # every row its own id: the engine keys per-screen caches by segment id
+        variants.append(dataclasses.replace(seg, id=f"{seg.id}#0"))
+        for k, (p, _, lo, hi) in enumerate(plan, start=1):
+            variants += [
+                put_values(seg, {p: lo}, id=f"{seg.id}#{k}-"),
+                put_values(seg, {p: hi}, id=f"{seg.id}#{k}+"),
+            ]
     run = screen(dataclasses.replace(corridor, segments=tuple(variants)), factor_set, extra_checks)
     return {i: _rank(run, first, plan) for i, (first, plan) in plans.items()}
 

@@ -152,3 +152,17 @@ def test_batched_sensitivity_equals_one_segment_at_a_time():
     both = corridor_sensitivity(c, [0, 2], extra_checks=CORE)
     for i in (0, 2):
         assert both[i] == segment_sensitivity(c, i, extra_checks=CORE)
+
+
+def test_an_input_left_at_its_own_value_changes_nothing():
+    """Surcharge 0 kPa has its low end cut at 0: that variant is the segment itself and
+    must screen exactly like it, every check included (compound search too). Guards
+    against variants sharing state in the engine (it keys per-screen caches by id)."""
+    c = _corridor(WEAK, heights=(4.0, 6.0))
+    base = screen(c)
+    for i in (0, 1):
+        surcharge = next(s for s in segment_sensitivity(c, i, result=base) if s.key == "surcharge_kpa")
+        assert surcharge.low == 0.0
+        assert surcharge.length_low_m == float(base.length_m[i])
+        assert surcharge.min_cdr_low == pytest.approx(float(base.min_cdr[i]), rel=1e-12)
+        assert surcharge.verdict_low == base.verdict[i]
