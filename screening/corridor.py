@@ -119,10 +119,17 @@ def segments_from_lines(
         if f.name != "spacing_m"
     }
     codes: dict[str, str] = {}
+    seen: set[tuple[str, str]] = set()
     out: list[Segment] = []
     notes: list[str] = [] if notes is None else notes
     for line in lines:
         wall = line.wall or wall_name
+        if (wall, line.side) in seen:  # two alignments of one name: keep them apart
+            n = 2
+            while (f"{wall} ({n})", line.side) in seen:
+                n += 1
+            wall = f"{wall} ({n})"
+        seen.add((wall, line.side))
         if wall not in codes:
             codes[wall] = wall_code(wall, codes.values())
         prefix = codes[wall] + {"left": "L", "right": "R", "": ""}[line.side]

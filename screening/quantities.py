@@ -111,6 +111,24 @@ class SegmentQuantities:
     def cost_total(self) -> float:
         return sum(self.cost.values())
 
+    def as_result(self) -> dict[str, float | int]:
+        """Built-in numbers for a results table (the corridor file, JSON), SI, rounded."""
+        out: dict[str, float | int] = {
+            "face_area_m2": round(self.face_area_m2, 2),
+            "facing_area_m2": round(self.facing_area_m2, 2),
+            "select_fill_m3": round(self.select_fill_m3, 2),
+            "levelling_pad_m": round(self.levelling_pad_m, 2),
+        }
+        if self.strip_count:
+            out["strip_count"] = int(self.strip_count)
+            out["strip_length_m"] = round(self.strip_length_m, 1)
+        if self.steel_kg:
+            out["steel_kg"] = round(self.steel_kg, 1)
+        if self.geosynthetic_m2:
+            out["geosynthetic_m2"] = round(sum(self.geosynthetic_m2.values()), 2)
+        out["rough_cost"] = round(self.cost_total, 0)
+        return out
+
 
 @dataclass(frozen=True)
 class CorridorQuantities:

@@ -196,3 +196,21 @@ def test_a_folder_is_not_a_profile(tmp_path):
     folder.mkdir()
     with pytest.raises(InputError, match="is a folder, not a profile file"):
         read_profile_xml(folder)
+
+
+def test_two_alignments_of_one_name_become_two_walls_with_their_own_ids(tmp_path):
+    """Segment ids must be unique and one wall's segments must not overlap (store rules)."""
+    from screening import store
+
+    second = APPROACH[
+        APPROACH.index("<Alignment name=") : APPROACH.index("</Alignment>") + len("</Alignment>")
+    ]
+    text = APPROACH.replace("</Alignments>", second + "</Alignments>")
+    path = tmp_path / "twice.xml"
+    path.write_text(text)
+    c = corridor_from_profile(path, name="Twice", max_step_m=1.0, max_length_m=100.0)
+    walls = sorted({s.wall for s in c.segments})
+    assert walls == ["East approach", "East approach (2)"]
+    ids = [s.id for s in c.segments]
+    assert len(ids) == len(set(ids))
+    assert store.loads(store.dumps(c), "twice.toml") == c

@@ -173,3 +173,14 @@ def test_a_screen_of_another_corridor_is_refused():
     renamed = dataclasses.replace(other, segments=(dataclasses.replace(other.segments[0], id="X"),))
     with pytest.raises(InputError, match="does not belong to this corridor"):
         corridor_quantities(renamed, r, RATES)
+
+
+def test_result_table_is_builtin_numbers():
+    """numpy scalars are not TOML (tomli-w refuses them): the results table must be plain."""
+    import tomli_w
+
+    c, r = _corridor("geogrid", 2.0, 5.0, 30.0)
+    row = corridor_quantities(c, r, RATES).segments[0].as_result()
+    assert all(type(v) in (int, float) for v in row.values())
+    assert "geosynthetic_m2" in row and "steel_kg" not in row
+    tomli_w.dumps({"result": row})
