@@ -69,7 +69,14 @@ def _materials(data: ReportData) -> list[Table]:
         sample = next(iter(seen))
         names = [f.name for f in dataclasses.fields(sample) if f.name not in ("note", "name")]
         rows = [[*(_cell(getattr(obj, n)) for n in names), _ids(ids)] for obj, ids in seen.items()]
-        out.append(Table(title, [*names, "segments"], rows))
+        out.append(
+            Table(
+                title,
+                [*names, "segments"],
+                rows,
+                "Values as stored in the file (SI, unit in each name).",
+            )
+        )
     fams: dict[Reinforcement, list[str]] = {}
     for s in c.segments:
         fams.setdefault(s.reinforcement, []).append(s.id)

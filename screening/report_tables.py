@@ -41,6 +41,11 @@ def _digits(unit: str) -> int:
     return {"m": 2, "kPa": 1, "kN/m": 1, "kN·m/m": 0, "m2": 1, "m3": 1, "kg": 0}.get(unit, 2)
 
 
+def _g(data: ReportData, value: float, unit: str) -> str:
+    """An input value in display units, to 4 significant figures."""
+    return f"{data.display.value(value, unit):.4g}"
+
+
 def _u(data: ReportData, unit: str) -> str:
     return data.display.label(unit)
 
@@ -242,8 +247,8 @@ def sensitivity(data: ReportData) -> list[Table]:
             [
                 str(k + 1),
                 s.label,
-                f"{s.base:g} {s.unit}",
-                f"{s.low:g} … {s.high:g}",
+                f"{_g(data, s.base, s.unit)} {_u(data, s.unit)}",
+                f"{_g(data, s.low, s.unit)} … {_g(data, s.high, s.unit)}",
                 f"{s.verdict_low} / {s.verdict_high}",
                 f"{_num(data, s.length_low_m, 'm')} / {_num(data, s.length_high_m, 'm')}",
                 f"{s.min_cdr_low:.2f} / {s.min_cdr_high:.2f}",
