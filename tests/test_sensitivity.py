@@ -161,7 +161,9 @@ def test_an_input_left_at_its_own_value_changes_nothing():
     c = _corridor(WEAK, heights=(4.0, 6.0))
     base = screen(c)
     for i in (0, 1):
-        surcharge = next(s for s in segment_sensitivity(c, i, result=base) if s.key == "surcharge_kpa")
+        surcharge = next(
+            s for s in segment_sensitivity(c, i, result=base) if s.key == "surcharge_kpa"
+        )
         assert surcharge.low == 0.0
         assert surcharge.length_low_m == float(base.length_m[i])
         assert surcharge.min_cdr_low == pytest.approx(float(base.min_cdr[i]), rel=1e-12)
