@@ -1,6 +1,7 @@
 """Benchmark of the compound/global slip search: speed, and accuracy against a fine search.
 
-Run from the repository root:  python bench/bench_compound.py [--segments 1000] [--check 60]
+Run from the repository root:
+    python bench/bench_compound.py [--segments 1000] [--check 60] [--screen 1000]
 
 The corridor is invented for the benchmark (seeded random walls: heights 2-12 m, sand and clay
 foundations, toe slopes, backslopes, surcharges, steel strips and geosynthetics); it is not a
@@ -10,7 +11,9 @@ design case. Two numbers come out:
    (one core: run with OMP_NUM_THREADS=1 / OPENBLAS_NUM_THREADS=1);
 2. for ``--check`` of them, the critical factor of each search density against the FINE
    search: the largest and mean relative excess (the search density screening uses must
-   stay within 1 %).
+   stay within 1 %);
+3. with ``--screen N``, a whole screen of N segments of bench_screen.py's corridor with and
+   without the plug-in checks (sizing asks the slip search at several lengths).
 """
 
 from __future__ import annotations
@@ -142,10 +145,38 @@ def _circles_per_segment(d: SearchDensity) -> int:
     return grid + d.starts * d.moves * d.refine_steps + d.starts + 2
 
 
+def full_screen(segments: int) -> None:
+    """The whole screen with the plug-ins (sizing included) on bench_screen's corridor."""
+    import sys
+    from pathlib import Path
+
+    sys.path.insert(0, str(Path(__file__).parent))
+    from bench_screen import generated_corridor
+
+    from screening.engine import screen
+
+    corridor = generated_corridor(segments)
+    start, cpu = time.perf_counter(), time.process_time()
+    core = screen(corridor, extra_checks=())
+    t_core = time.perf_counter() - start
+    start, cpu = time.perf_counter(), time.process_time()
+    full = screen(corridor)
+    wall, cpu = time.perf_counter() - start, time.process_time() - cpu
+    longer = int(np.sum(full.length_m > core.length_m + 1e-9))
+    gov = {g: full.governing.count(g) for g in ("compound", "global", "seismic")}
+    print(
+        f"whole screen, {segments} segments of bench_screen's corridor: core checks "
+        f"{t_core:.2f} s; with compound/global/seismic {wall:.1f} s wall, {cpu:.1f} s CPU"
+    )
+    print(f"  lengthened by the plug-in checks: {longer}; governing: {gov}")
+    print(f"  verdicts core {core.counts()} -> with plug-ins {full.counts()}")
+
+
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--segments", type=int, default=1000)
     parser.add_argument("--check", type=int, default=60, help="segments in the accuracy run")
+    parser.add_argument("--screen", type=int, default=0, help="segments in a whole-screen run")
     args = parser.parse_args()
     inp = invented_walls(args.segments)
     result, seconds, cpu = timed(inp, STANDARD)
@@ -161,6 +192,8 @@ def main() -> None:
     )
     if args.check:
         accuracy(invented_walls(args.check, seed=11))
+    if args.screen:
+        full_screen(args.screen)
 
 
 if __name__ == "__main__":

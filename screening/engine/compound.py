@@ -224,7 +224,8 @@ def _family_values(family: str):
         if rows.size:
             detail[rows] = np.array(
                 [
-                    f"circle centre ({x:.1f}, {y:.1f}) m, radius {r:.1f} m, F = {f:.2f}"
+                    f"circle centre {abs(x):.1f} m {'in front of' if x < 0 else 'behind'} the "
+                    f"face, {y:.1f} m above the base, radius {r:.1f} m, F = {f:.2f}"
                     + (f", {c}" if c else "")
                     for x, y, r, f, c in zip(
                         v[f"{family}_centre_x_m"][rows].tolist(),

@@ -93,29 +93,41 @@ def bishop_factor(
     restoring = np.broadcast_to(np.asarray(extra_restoring, dtype=top.dtype), drive.shape)
     factor = ordinary_factor(f, extra_restoring, extra_drive)
     factor = np.where(active & np.isfinite(factor) & (factor > 0), factor, 1.0)
-    # Iterate on the surfaces still moving only (flattened), so a few slow ones stay cheap.
+    # Iterate on every surface while most still move, then gather the few that do once and
+    # iterate on those alone (a handful of slow surfaces must not keep the whole batch busy).
     shape = drive.shape
-    factor = factor.reshape(-1).copy()
-    todo = np.flatnonzero(active.reshape(-1))
     flat = lambda a: a.reshape(-1, a.shape[-1])  # noqa: E731
-    cos_a, slope_f, top_f, floor_f = (
-        flat(np.broadcast_to(f.cos_a, top.shape)),
-        flat(slope),
-        flat(top),
-        flat(np.broadcast_to(floor, top.shape)),
-    )
+    cos_a = flat(np.broadcast_to(f.cos_a, top.shape))
+    slope_f, top_f = flat(slope), flat(top)
+    floor_f = flat(np.broadcast_to(floor, top.shape))
     rest_f, drive_f = restoring.reshape(-1), safe_drive.reshape(-1)
-    converged = np.ones(factor.shape, dtype=bool)
+    factor = factor.reshape(-1).copy()
+    moving = active.reshape(-1).copy()
     iterations = 0
-    while todo.size and iterations < max_iterations:
+    while iterations < max_iterations and moving.any():
         iterations += 1
-        m_alpha = np.maximum(cos_a[todo] + slope_f[todo] / factor[todo, None], floor_f[todo])
-        new = (np.sum(top_f[todo] / m_alpha, axis=-1) + rest_f[todo]) / drive_f[todo]
-        new = np.maximum(new, _TINY)
-        moving = np.abs(new - factor[todo]) >= tolerance
-        factor[todo] = new
-        todo = todo[moving]
-    converged[todo] = False
+        if moving.mean() > 0.25:
+            m_alpha = np.maximum(cos_a + slope_f / factor[:, None], floor_f)
+            new = np.maximum((np.sum(top_f / m_alpha, axis=-1) + rest_f) / drive_f, _TINY)
+            moving &= np.abs(new - factor) >= tolerance
+            factor = np.where(active.reshape(-1), new, factor)
+            continue
+        todo = np.flatnonzero(moving)
+        c, sl, tp, fl = cos_a[todo], slope_f[todo], top_f[todo], floor_f[todo]
+        rs, dr, val = rest_f[todo], drive_f[todo], factor[todo]
+        still = np.ones(todo.size, dtype=bool)
+        while iterations <= max_iterations:
+            m_alpha = np.maximum(c + sl / val[:, None], fl)
+            new = np.maximum((np.sum(tp / m_alpha, axis=-1) + rs) / dr, _TINY)
+            still = np.abs(new - val) >= tolerance
+            val = new
+            if not still.any() or iterations == max_iterations:
+                break
+            iterations += 1
+        factor[todo] = val
+        moving[todo] = still
+        break
+    converged = ~moving
     factor = factor.reshape(shape)
     converged = converged.reshape(shape)
     value = np.where(active, factor, np.inf)
