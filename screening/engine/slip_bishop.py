@@ -107,8 +107,8 @@ def bishop_factor(
     while iterations < max_iterations and moving.any():
         iterations += 1
         if moving.mean() > 0.25:
-            m_alpha = np.maximum(cos_a + slope_f / factor[:, None], floor_f)
-            new = np.maximum((np.sum(top_f / m_alpha, axis=-1) + rest_f) / drive_f, _TINY)
+            m_alpha = np.maximum(cos_a + slope_f / np.maximum(factor, _TINY)[:, None], floor_f)
+            new = np.maximum((np.sum(top_f / m_alpha, axis=-1) + rest_f) / drive_f, 0.0)
             moving &= np.abs(new - factor) >= tolerance
             factor = np.where(active.reshape(-1), new, factor)
             continue
@@ -117,8 +117,8 @@ def bishop_factor(
         rs, dr, val = rest_f[todo], drive_f[todo], factor[todo]
         still = np.ones(todo.size, dtype=bool)
         while iterations <= max_iterations:
-            m_alpha = np.maximum(c + sl / val[:, None], fl)
-            new = np.maximum((np.sum(tp / m_alpha, axis=-1) + rs) / dr, _TINY)
+            m_alpha = np.maximum(c + sl / np.maximum(val, _TINY)[:, None], fl)
+            new = np.maximum((np.sum(tp / m_alpha, axis=-1) + rs) / dr, 0.0)
             still = np.abs(new - val) >= tolerance
             val = new
             if not still.any() or iterations == max_iterations:
