@@ -43,6 +43,8 @@ from screening.units import Display
 FORMATS = {".html": "html", ".htm": "html", ".md": "md", ".csv": "csv"}
 SENSITIVITY_LIMIT = 60
 """Most segments given a sensitivity table (referred first, then marginal by CDR)."""
+CROSS_SECTION_LIMIT = 200
+"""Most cross-section figures (about 0.3 s and 40 kB each), chosen the same way."""
 
 
 @dataclass
@@ -59,6 +61,8 @@ class ReportData:
     monte_carlo: MonteCarlo | None = None
     notes: list[str] = field(default_factory=list)
     """Things the reader should know about the report itself (what was left out)."""
+    cross_sections: list[int] = field(default_factory=list)
+    """Segments drawn across the wall, in corridor order."""
 
     @property
     def flagged(self) -> list[int]:
@@ -74,6 +78,7 @@ def build_report_data(
     rates: Rates | None = None,
     sensitivity: bool = True,
     sensitivity_limit: int = SENSITIVITY_LIMIT,
+    cross_section_limit: int = CROSS_SECTION_LIMIT,
     monte_carlo_samples: int = 0,
     seed: int = 0,
     today: datetime.date | None = None,
@@ -100,10 +105,14 @@ def build_report_data(
         notes=notes,
     )
     flagged = data.flagged
-    if sensitivity and flagged:
-        order = sorted(
-            flagged, key=lambda i: (result.verdict[i] != "refer", float(result.min_cdr[i]))
+    order = sorted(flagged, key=lambda i: (result.verdict[i] != "refer", float(result.min_cdr[i])))
+    data.cross_sections = sorted(order[:cross_section_limit])
+    if len(order) > cross_section_limit:
+        notes.append(
+            f"Cross-sections drawn for {cross_section_limit} of {len(order)} referred or marginal "
+            "segments (referred first, then the lowest CDR)."
         )
+    if sensitivity and flagged:
         chosen = sorted(order[:sensitivity_limit])
         if len(order) > sensitivity_limit:
             notes.append(

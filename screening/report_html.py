@@ -109,7 +109,7 @@ def render_html(data: ReportData) -> str:
     add('<h2 id="cross-sections">Cross-sections of referred and marginal segments</h2>')
     if not data.flagged:
         add("<p>Every segment is clear.</p>")
-    for i in data.flagged:
+    for i in data.cross_sections:
         png = cross_section_png(c, r, i, data.display)
         add(_img(png, f"cross-section of {r.ids[i]}", f"{r.ids[i]}: {'; '.join(r.reasons[i])}"))
 

@@ -200,3 +200,15 @@ def test_cross_sections_find_the_critical_circles_the_screen_reports(screened):
         for name in families:
             if float(result.checks[name].demand[i]) > 0:
                 assert name in found
+
+
+def test_cross_sections_beyond_the_limit_are_left_out_with_a_note(screened):
+    corridor, result = screened
+    flagged = [i for i, v in enumerate(result.verdict) if v != "clear"]
+    data = build_report_data(corridor, result, sensitivity=False, cross_section_limit=1)
+    assert len(data.cross_sections) == 1
+    assert result.verdict[data.cross_sections[0]] == "refer" or "refer" not in result.verdict
+    if len(flagged) > 1:
+        assert any(
+            n.startswith(f"Cross-sections drawn for 1 of {len(flagged)}") for n in data.notes
+        )
