@@ -153,3 +153,19 @@ def test_diff_without_results_compares_inputs_only(versions):
     diff = diff_corridors(old, new)
     assert {d.id for d in diff} == {"A-02", "A-03", "A-04", "A-05"}
     assert all(d.old is None and d.new is None for d in diff)
+
+
+def test_rules_and_design_life_changes_are_corridor_level(versions):
+    old, _, _, _ = versions
+    text = OLD.replace(
+        'factor_set = "aashto-lrfd"', 'factor_set = "aashto-lrfd"\ndesign_life_years = 100'
+    )
+    text += "\n[rules]\nmarginal_cdr = 1.2\n"
+    other = store.loads(text, "rules.toml")
+    diff = diff_corridors(old, other)
+    assert {(c.path, c.old, c.new) for c in diff.corridor} == {
+        ("rules.marginal_cdr", 1.1, 1.2),
+        ("design_life_years", None, 100.0),
+    }
+    assert list(diff) == []  # no segment input changed, and no screens to compare
+    assert "corridor  rules.marginal_cdr: 1.1 -> 1.2" in diff_text(diff)
