@@ -63,9 +63,9 @@ def input_cells(seg: Segment) -> dict[str, Text]:
     }
 
 
-def result_cells(result: CorridorResult | None, i: int) -> dict[str, Text]:
+def result_cells(result: CorridorResult | None, i: int, pending: bool = False) -> dict[str, Text]:
     """The cells that come from the screen (ellipses while it is not yet known)."""
-    if result is None:
+    if result is None or pending:
         blank = Text(PENDING, style="dim")
         return {k: blank for k in ("length", "ratio", "governing", "cdr", "verdict")}
     cdr = float(result.min_cdr[i])
@@ -80,12 +80,18 @@ def result_cells(result: CorridorResult | None, i: int) -> dict[str, Text]:
     }
 
 
-def row_cells(seg: Segment, result: CorridorResult | None, i: int) -> list[Text]:
-    cells = input_cells(seg) | result_cells(result, i)
+def row_cells(
+    seg: Segment, result: CorridorResult | None, i: int, pending: bool = False
+) -> list[Text]:
+    cells = input_cells(seg) | result_cells(result, i, pending)
     return [cells[key] for key, _, _ in COLUMNS]
 
 
-def summary_text(corridor: Corridor, result: CorridorResult | None) -> Text:
+def summary_text(
+    corridor: Corridor,
+    result: CorridorResult | None,
+    stale: set[int] | frozenset[int] = frozenset(),
+) -> Text:
     """Segments per verdict, total wall length and face area, factor set."""
     segs = corridor.segments
     length = sum(s.length_along_m for s in segs)
@@ -93,11 +99,17 @@ def summary_text(corridor: Corridor, result: CorridorResult | None) -> Text:
     out = Text()
     out.append(f"{len(segs)} segments", style="bold")
     if result is not None and len(result) == len(segs):
-        for verdict, count in result.counts().items():
+        counts = {"clear": 0, "marginal": 0, "refer": 0}
+        for i, verdict in enumerate(result.verdict):
+            if i not in stale:
+                counts[verdict] += 1
+        for verdict, count in counts.items():
             out.append("   ")
             out.append(f"{VERDICT_MARK[verdict]} {verdict} {count}", style=VERDICT_STYLE[verdict])
+        if stale:
+            out.append(f"   {PENDING} {len(stale)} re-screening", style="dim")
     else:
-        out.append("   screening…", style="dim")
+        out.append(f"   {PENDING} screening", style="dim")
     out.append(f"   wall {length:,.0f} m   face {area:,.0f} m²   ")
     out.append(f"factor set {corridor.factor_set.id}", style="bold")
     return out

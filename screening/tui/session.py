@@ -1,12 +1,11 @@
 """The corridor being worked on: inputs, their screen, the file, and undo/redo.
 
 No Textual here: the screens call these methods and redraw what they report changed.
-Every change keeps the previous ``(corridor, result)`` pair on the undo stack, so undo
-restores a screen without running the engine again. Edits to one segment re-screen only
-that segment (``engine.screen`` on a one-segment corridor, then ``engine.merge``);
-changes that add, remove or reorder segments, or switch the factor set, leave the
-result empty (``None``) for the app to screen the whole corridor again.
-"""
+Every change keeps the previous ``(corridor, result, stale rows)`` on the undo stack, so
+undo restores a screen without running the engine again. An edit of one segment marks
+its row stale; the app re-screens stale rows off the UI thread (``screen_rows``) and hands
+the numbers back through :meth:`Session.accept`. Changes that add, remove or reorder
+segments, or switch the factor set, empty the result (``None``) for a whole new screen."""
 
 from __future__ import annotations
 
@@ -30,6 +29,7 @@ UNDO_DEPTH = 40
 class _State:
     corridor: Corridor
     result: CorridorResult | None
+    stale: frozenset[int]
     label: str
 
 
@@ -73,6 +73,12 @@ def chainage_order(segments: tuple[Segment, ...]) -> tuple[Segment, ...]:
     return tuple(sorted(segments, key=lambda s: (s.chainage_start_m, s.wall)))
 
 
+def screen_rows(corridor: Corridor, rows: list[int]) -> CorridorResult:
+    """Screen only ``rows`` of ``corridor`` (a corridor of those segments, same settings)."""
+    sub = dataclasses.replace(corridor, segments=tuple(corridor.segments[i] for i in rows))
+    return engine.screen(sub)
+
+
 class Session:
     """One open corridor."""
 
@@ -81,6 +87,9 @@ class Session:
         self.corridor = corridor
         """Inputs, in chainage order from the moment the file is opened."""
         self.result: CorridorResult | None = None
+        """Last screen; None until the whole corridor has been screened (again)."""
+        self.stale: set[int] = set()
+        """Rows whose inputs changed after ``result`` was made: to re-screen."""
         self.path = path
         """File it was read from and saves to; None for the unsaved demo copy."""
         self.presets = presets
@@ -105,7 +114,7 @@ class Session:
         return bool(self._redo)
 
     def _push(self, label: str) -> None:
-        self._undo.append(_State(self.corridor, self.result, label))
+        self._undo.append(_State(self.corridor, self.result, frozenset(self.stale), label))
         del self._undo[:-UNDO_DEPTH]
         self._redo.clear()
 
@@ -113,26 +122,51 @@ class Session:
         self.corridor = dataclasses.replace(self.corridor, segments=tuple(segments))
 
     def screen_all(self) -> CorridorResult:
-        """Screen the whole corridor on this thread (small corridors, tests)."""
+        """Screen the whole corridor on this thread (scripts and the benchmark)."""
         self.result = engine.screen(self.corridor)
+        self.stale.clear()
         return self.result
 
-    def accept_result(self, corridor: Corridor, result: CorridorResult) -> bool:
-        """Take a screen run elsewhere (a worker) if the inputs did not change meanwhile."""
-        if corridor is not self.corridor:
+    def screen_stale(self) -> None:
+        """Re-screen the stale rows on this thread (scripts and the benchmark)."""
+        rows = sorted(self.stale)
+        if rows and self.result is not None:
+            self.accept(self.corridor, rows, screen_rows(self.corridor, rows))
+
+    def accept(self, corridor: Corridor, rows: list[int] | range, result: CorridorResult) -> bool:
+        """Take a screen of ``rows`` of ``corridor`` made elsewhere (a worker).
+
+        Refused when the segment list or the factor set changed meanwhile (a new whole
+        screen is then under way). Rows edited meanwhile take the new numbers but stay
+        stale, so they are screened again.
+        """
+        now = self.corridor
+        if (
+            len(corridor.segments) != len(now.segments)
+            or corridor.factor_set is not now.factor_set
+            or corridor.rules is not now.rules
+        ):
             return False
-        self.result = result
+        rows = list(rows)
+        if self.result is None:
+            if rows != list(range(len(now.segments))):
+                return False
+            self.result = result
+            self.stale = set()
+        else:
+            self.result = engine.merge(self.result, rows, result)
+        fresh = {i for i in rows if corridor.segments[i] is now.segments[i]}
+        self.stale = (self.stale - fresh) | (set(rows) - fresh)
         return True
 
+    def pending(self, row: int) -> bool:
+        """True while ``row`` has no up-to-date result."""
+        return self.result is None or row in self.stale
+
     def _rescreen(self, rows: tuple[int, ...]) -> None:
-        """Re-screen ``rows`` in place, or leave the result empty if there is none yet."""
-        if self.result is None or len(self.result) != len(self.corridor.segments):
-            self.result = None
-            return
-        sub = dataclasses.replace(
-            self.corridor, segments=tuple(self.corridor.segments[i] for i in rows)
-        )
-        self.result = engine.merge(self.result, list(rows), engine.screen(sub))
+        """Mark ``rows`` for a re-screen (the app runs it off the UI thread)."""
+        if self.result is not None:
+            self.stale |= set(rows)
 
     # ------------------------------------------------------------------ edits
 
@@ -192,6 +226,7 @@ class Session:
         self._coalesce = None
         self._set_segments(segments)
         self.result = None
+        self.stale = set()
         return Change(label, None, cursor)
 
     def _taken(self) -> set[str]:
@@ -287,6 +322,7 @@ class Session:
         self._coalesce = None
         self.corridor = dataclasses.replace(self.corridor, factor_set=factor_sets[factor_set_id])
         self.result = None
+        self.stale = set()
         return Change(f"factor set {factor_set_id}", None)
 
     # ------------------------------------------------------------------ undo / files
@@ -295,14 +331,14 @@ class Session:
         if not self._undo:
             return None
         state = self._undo.pop()
-        self._redo.append(_State(self.corridor, self.result, state.label))
+        self._redo.append(_State(self.corridor, self.result, frozenset(self.stale), state.label))
         return self._restore(state, f"undid {state.label}")
 
     def redo(self) -> Change | None:
         if not self._redo:
             return None
         state = self._redo.pop()
-        self._undo.append(_State(self.corridor, self.result, state.label))
+        self._undo.append(_State(self.corridor, self.result, frozenset(self.stale), state.label))
         return self._restore(state, f"redid {state.label}")
 
     def _restore(self, state: _State, label: str) -> Change:
@@ -320,7 +356,7 @@ class Session:
                 )
                 if a is not b
             )
-        self.corridor, self.result = state.corridor, state.result
+        self.corridor, self.result, self.stale = state.corridor, state.result, set(state.stale)
         return Change(label, rows)
 
     def save(self, path: Path | None = None) -> Path:

@@ -22,7 +22,7 @@ from screening.tui.session import Session
 from screening.tui.widgets.progress_strip import ProgressStrip
 
 from .conftest import make_app
-from .test_workflows import SIZE, drawn, plain
+from .test_workflows import SIZE, drawn, plain, settle
 
 CAUTION_WORDS = ("not a design", "licensed engineer", "governing local code")
 
@@ -48,6 +48,7 @@ def replicated(n: int):
 async def test_cautions_on_first_start_only(corridor_file: Path):
     app = make_app(corridor_file, show_cautions=None)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         assert isinstance(app.screen, AboutScreen)
         text = plain(app.screen.query_one("#about Static:last-of-type").content)
         for words in CAUTION_WORDS:
@@ -66,6 +67,7 @@ async def test_cautions_on_first_start_only(corridor_file: Path):
 async def test_about_screen_repeats_the_cautions(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         await pilot.press("i")
         assert isinstance(app.screen, AboutScreen)
         text = plain(app.screen.query_one("#about Static:last-of-type").content)
@@ -75,6 +77,7 @@ async def test_about_screen_repeats_the_cautions(corridor_file: Path):
 async def test_help_lists_every_key(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         await pilot.press("question_mark")
         assert isinstance(app.screen, HelpScreen)
         from screening.tui.screens.help import keys_table
@@ -86,7 +89,8 @@ async def test_help_lists_every_key(corridor_file: Path):
 
 async def test_every_action_is_bound_and_in_the_palette(corridor_file: Path):
     app = make_app(corridor_file)
-    async with app.run_test(size=SIZE):
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         bound = {b.action for b in screen.BINDINGS}
         titles = [c.title for c in app.get_system_commands(screen)]
@@ -99,6 +103,7 @@ async def test_every_action_is_bound_and_in_the_palette(corridor_file: Path):
 async def test_palette_command_runs_the_action(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         n = len(app.corridor_screen.session.corridor.segments)
         command = next(c for c in app.get_system_commands(app.screen) if c.title.startswith("Copy"))
         await command.callback()
@@ -110,6 +115,7 @@ async def test_presets_browser_shows_values_and_sources(corridor_file: Path):
     presets = load_presets()
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         await pilot.press("p")
         await pilot.pause()
         browser = app.screen
@@ -135,6 +141,7 @@ async def test_recent_files_reopen(tmp_path: Path, corridor_file: Path):
         pass  # opening it puts it on the list
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         await pilot.press("r")
         await pilot.pause()
         chooser = app.screen
@@ -152,7 +159,8 @@ async def test_no_color_keeps_verdicts_readable(
 ):
     monkeypatch.setenv("NO_COLOR", "1")
     app = make_app(corridor_file)
-    async with app.run_test(size=SIZE):
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         assert app.no_color
         result = app.corridor_screen.session.result
         for i, verdict in enumerate(result.verdict):
@@ -171,7 +179,7 @@ async def test_large_corridor_screens_in_background(monkeypatch: pytest.MonkeyPa
         return (yield from steps)
 
     monkeypatch.setattr(engine, "screen_iter", held_back)
-    corridor = replicated(2000)
+    corridor = replicated(600)
     app = WallscreenApp(Session(corridor, None, load_presets()), show_cautions=False)
     async with app.run_test(size=SIZE) as pilot:
         screen = app.corridor_screen
@@ -186,10 +194,9 @@ async def test_large_corridor_screens_in_background(monkeypatch: pytest.MonkeyPa
         await pilot.press("ctrl+r")
         assert screen.screening
         gate.set()
-        await app.workers.wait_for_complete()
-        await pilot.pause()
+        await settle(pilot, app)
         assert not screen.screening and not strip.has_class("running")
         fresh = engine.screen(screen.session.corridor)
-        for i in (0, 999, 1999):
+        for i in (0, 299, 599):
             assert drawn(app, i, "verdict").endswith(fresh.verdict[i])
             assert drawn(app, i, "length") == f"{fresh.length_m[i]:.1f}"

@@ -1,9 +1,10 @@
 """Pictures of the main views at a fixed size, on the shipped demo corridor.
 
 Deterministic: a private config folder (no recent files, cautions set per test), the demo
-opened as an unsaved copy (no path or date on screen), a fixed 160 x 45 terminal. When the
-engine's numbers change on purpose, refresh with ``pytest tests/tui --snapshot-update``
-and look at the pictures before committing them.
+opened as an unsaved copy (no path or date on screen), a fixed 160 x 45 terminal, and
+every background screen landed before keys are pressed and again before the picture.
+When the engine's numbers change on purpose, refresh with
+``pytest tests/tui/test_snapshots.py --snapshot-update`` and look at the pictures first.
 """
 
 from __future__ import annotations
@@ -13,30 +14,42 @@ from .conftest import make_app
 SIZE = (160, 45)
 
 
+def picture(snap_compare, keys: list[str], *, cautions: bool = False) -> bool:
+    app = make_app(None, show_cautions=cautions)
+
+    async def settle_then_press(pilot) -> None:
+        from .test_workflows import settle
+
+        await settle(pilot, app)
+        await pilot.press(*keys)
+        await settle(pilot, app)
+
+    return snap_compare(app, run_before=settle_then_press, terminal_size=SIZE)
+
+
 def test_corridor_view(snap_compare):
-    assert snap_compare(make_app(None), press=["down", "down", "down"], terminal_size=SIZE)
+    assert picture(snap_compare, ["down", "down", "down"])
 
 
 def test_marked_range(snap_compare):
-    assert snap_compare(make_app(None), press=["down", "space", "down", "down"], terminal_size=SIZE)
+    assert picture(snap_compare, ["down", "space", "down", "down"])
 
 
 def test_editor_refusing_a_value(snap_compare):
-    keys = ["down", "e", *["tab"] * 6, "home", "ctrl+k", *"9..5"]
-    assert snap_compare(make_app(None), press=keys, terminal_size=SIZE)
+    assert picture(snap_compare, ["down", "e", *["tab"] * 6, "home", "ctrl+k", *"9..5"])
 
 
 def test_detail_view(snap_compare):
-    assert snap_compare(make_app(None), press=["down", "down", "enter"], terminal_size=SIZE)
+    assert picture(snap_compare, ["down", "down", "enter"])
 
 
 def test_help(snap_compare):
-    assert snap_compare(make_app(None), press=["question_mark"], terminal_size=SIZE)
+    assert picture(snap_compare, ["question_mark"])
 
 
 def test_presets_browser(snap_compare):
-    assert snap_compare(make_app(None), press=["p", "down"], terminal_size=SIZE)
+    assert picture(snap_compare, ["p", "down"])
 
 
 def test_first_start_cautions(snap_compare):
-    assert snap_compare(make_app(None, show_cautions=True), terminal_size=SIZE)
+    assert picture(snap_compare, [], cautions=True)

@@ -42,8 +42,19 @@ def summary(app) -> str:
     return app.corridor_screen.query_one(SummaryBar).content.plain
 
 
-def assert_rows_match_fresh_screen(app) -> None:
+async def settle(pilot, app) -> None:
+    """Wait until every screen running in the background has landed."""
+    for _ in range(400):
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        if not app.corridor_screen.busy:
+            return
+    raise AssertionError("the corridor is still being screened")
+
+
+async def rows_match_fresh_screen(pilot, app) -> None:
     """Every row and the summary agree with a fresh screen of the session's inputs."""
+    await settle(pilot, app)
     corridor = app.corridor_screen.session.corridor
     fresh = engine.screen(corridor)
     for i in range(len(corridor.segments)):
@@ -68,6 +79,7 @@ async def open_editor_at(pilot, app, row: int, field_tabs: int) -> None:
 async def test_edit_height_updates_row_and_summary_then_save_and_reopen(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         row = 3
         before = screen.session.corridor.segments[row]
@@ -78,7 +90,7 @@ async def test_edit_height_updates_row_and_summary_then_save_and_reopen(corridor
         after = screen.session.corridor.segments[row]
         assert after.id == before.id and after.height_end_m == 9.5
         assert drawn(app, row, "heights").endswith("→9.5")
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
         assert screen.session.dirty
         await pilot.press("enter", "ctrl+s")
         await pilot.pause()
@@ -90,6 +102,7 @@ async def test_edit_height_updates_row_and_summary_then_save_and_reopen(corridor
 
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         rows = [s.id for s in app.corridor_screen.session.corridor.segments]
         assert drawn(app, rows.index(before.id), "heights").endswith("→9.5")
 
@@ -97,6 +110,7 @@ async def test_edit_height_updates_row_and_summary_then_save_and_reopen(corridor
 async def test_invalid_value_is_refused_with_its_reason(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         corridor = screen.session.corridor
         await open_editor_at(pilot, app, 2, 5)
@@ -120,6 +134,7 @@ async def test_invalid_value_is_refused_with_its_reason(corridor_file: Path):
 async def test_chainage_end_before_start_is_refused(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         seg = screen.session.corridor.segments[0]
         await open_editor_at(pilot, app, 0, 4)
@@ -133,6 +148,7 @@ async def test_chainage_end_before_start_is_refused(corridor_file: Path):
 async def test_bulk_edit_of_a_marked_range(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         before = screen.session.corridor.segments
         await pilot.press("down", "space", "down", "down", "down", "b")
@@ -149,13 +165,14 @@ async def test_bulk_edit_of_a_marked_range(corridor_file: Path):
         after = screen.session.corridor.segments
         assert [s.traffic for s in after[1:5]] == [12.5] * 4
         assert after[0] is before[0] and after[5:] == before[5:]
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
         assert screen.anchor is None  # the range is cleared once applied
 
 
 async def test_bulk_edit_refuses_an_unknown_preset(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         corridor = screen.session.corridor
         await pilot.press("space", "down", "b")
@@ -176,6 +193,7 @@ async def test_bulk_edit_refuses_an_unknown_preset(corridor_file: Path):
 async def test_split_at_a_chainage(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         n = len(screen.session.corridor.segments)
         seg = screen.session.corridor.segments[1]
@@ -200,12 +218,13 @@ async def test_split_at_a_chainage(corridor_file: Path):
         expected = seg.height_start_m + 0.25 * (seg.height_end_m - seg.height_start_m)
         assert abs(first.height_end_m - expected) < 1e-3
         assert second.height_start_m == first.height_end_m
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
 
 
 async def test_delete_then_undo_and_redo(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         original = screen.session.corridor
         gone = original.segments[2].id
@@ -213,21 +232,22 @@ async def test_delete_then_undo_and_redo(corridor_file: Path):
         await pilot.pause()
         ids = [s.id for s in screen.session.corridor.segments]
         assert gone not in ids and len(ids) == len(original.segments) - 1
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
         await pilot.press("u")
         await pilot.pause()
         assert screen.session.corridor is original
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
         assert not screen.session.dirty  # back to what the file holds
         await pilot.press("ctrl+y")
         await pilot.pause()
         assert gone not in [s.id for s in screen.session.corridor.segments]
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
 
 
 async def test_typing_a_value_is_one_undo_step(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         original = screen.session.corridor
         await open_editor_at(pilot, app, 0, 10)
@@ -243,6 +263,7 @@ async def test_typing_a_value_is_one_undo_step(corridor_file: Path):
 async def test_factor_set_switch_updates_every_verdict(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         await pilot.press("f")
         await pilot.pause()
@@ -253,16 +274,17 @@ async def test_factor_set_switch_updates_every_verdict(corridor_file: Path):
         await pilot.pause()
         assert screen.session.corridor.factor_set.id == "asd"
         assert "factor set asd" in summary(app)
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
         await pilot.press("u")
         await pilot.pause()
         assert "factor set aashto-lrfd" in summary(app)
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
 
 
 async def test_add_and_duplicate_and_order(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         screen = app.corridor_screen
         n = len(screen.session.corridor.segments)
         last = screen.session.corridor.segments[-1]
@@ -280,13 +302,14 @@ async def test_add_and_duplicate_and_order(corridor_file: Path):
         await pilot.pause()
         starts = [s.chainage_start_m for s in screen.session.corridor.segments]
         assert starts == sorted(starts)
-        assert_rows_match_fresh_screen(app)
+        await rows_match_fresh_screen(pilot, app)
 
 
 async def test_unsaved_changes_guard_on_quit(corridor_file: Path):
     app = make_app(corridor_file)
     n = len(app.session.corridor.segments)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         await pilot.press("x")
         await pilot.pause()
         await pilot.press("q")
@@ -309,6 +332,7 @@ async def test_unsaved_changes_guard_on_quit(corridor_file: Path):
 async def test_quit_without_changes_does_not_ask(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         await pilot.press("q")
         await pilot.pause()
     assert app.return_code == 0
@@ -320,6 +344,7 @@ async def test_demo_saves_through_save_as_and_is_remembered(tmp_path: Path):
     app = make_app(None)
     target = tmp_path / "mine.toml"
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         await pilot.press("ctrl+s")
         await pilot.pause()
         assert isinstance(app.screen, PromptScreen)
@@ -339,6 +364,7 @@ async def test_open_a_bad_file_says_why_and_keeps_the_corridor(tmp_path: Path, c
     app = make_app(corridor_file)
     seen: list[str] = []
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         app.notify = lambda message, **kw: seen.append(message)  # type: ignore[method-assign]
         corridor = app.corridor_screen.session.corridor
         await pilot.press("ctrl+o")
@@ -352,6 +378,7 @@ async def test_open_a_bad_file_says_why_and_keeps_the_corridor(tmp_path: Path, c
 async def test_detail_view_shows_checks_reasons_layers_and_sketch(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
         await pilot.press("down", "enter")
         await pilot.pause()
         detail = app.screen

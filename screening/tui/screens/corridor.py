@@ -4,8 +4,6 @@ the long section under it. Corridor operations and file actions live in their ow
 
 from __future__ import annotations
 
-import time
-
 from rich.text import Text
 from textual import on
 from textual.app import ComposeResult
@@ -47,8 +45,6 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
         self.session = session
         self.anchor: int | None = None
         """Start of the marked range (None: nothing marked)."""
-        self.last_edit_ms: float | None = None
-        """Time of the last in-place edit from value to redrawn row, ms (for the bench)."""
 
     # ------------------------------------------------------------------ layout
 
@@ -85,7 +81,7 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
         self.session = session
         self.anchor = None
         self.table.marked = set()
-        self.table.load(session.corridor, session.result, 0)
+        self.table.load(session, 0)
         self.redraw_around()
         self.table.focus()
         if session.result is None:
@@ -97,8 +93,8 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
         """Title, summary and long section (cheap: no table rows)."""
         s = self.session
         self.query_one(TitleBar).show(s.corridor.name, s.path, s.dirty)
-        self.query_one(SummaryBar).show(s.corridor, s.result)
-        self.query_one(LongSection).show(s.corridor, s.result, self.cursor)
+        self.query_one(SummaryBar).show(s.corridor, s.result, s.stale)
+        self.query_one(LongSection).show(s.corridor, s.result, self.cursor, s.stale)
 
     def say(self, message: str, style: str = "") -> None:
         self.query_one("#status", Static).update(Text(message, style=style))
@@ -110,15 +106,17 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
             return
         s = self.session
         if change.rows is not None and s.result is not None:
-            self.table.update_rows(change.rows, s.corridor, s.result)
+            self.table.update_rows(change.rows, s)
         else:
             self._set_anchor(None)
             cursor = self.cursor if change.cursor is None else change.cursor
-            self.table.load(s.corridor, s.result, cursor)
+            self.table.load(s, cursor)
         self.redraw_around()
         self.say(change.label)
         if s.result is None:
             self.start_screen()
+        else:
+            self.screen_stale_rows()
         if self.editor.display and s.corridor.segments:
             self.editor.refresh_values(s.corridor.segments[self.cursor], skip=self._typing())
 
@@ -134,7 +132,8 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
     def _moved(self, event: DataTable.RowHighlighted) -> None:
         if self.anchor is not None:
             self._set_anchor(self.anchor)
-        self.query_one(LongSection).show(self.session.corridor, self.session.result, self.cursor)
+        s = self.session
+        self.query_one(LongSection).show(s.corridor, s.result, self.cursor, s.stale)
 
     @on(DataTable.RowSelected, "#table")
     def _selected(self, event: DataTable.RowSelected) -> None:
@@ -147,7 +146,7 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
             if anchor is None
             else set(range(min(anchor, self.cursor), max(anchor, self.cursor) + 1))
         )
-        self.table.set_marked(rows, self.session.corridor, self.session.result)
+        self.table.set_marked(rows, self.session)
 
     def selected_rows(self) -> list[int]:
         """The marked range, or the cursor's row when nothing is marked."""
@@ -179,13 +178,13 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
 
     def _lookup(self, row: int):
         s = self.session
-        if s.result is None or not 0 <= row < len(s.corridor.segments):
+        if not 0 <= row < len(s.corridor.segments) or s.pending(row):
             return None
         return s.corridor.segments[row], s.result.segment(row)
 
     def action_open_detail(self) -> None:
         if self._lookup(self.cursor) is None:
-            self.say("the screen is still running: the detail opens once it is done", "yellow")
+            self.say("this segment is being screened: the detail opens once it is done", "yellow")
             return
         self.app.push_screen(
             DetailScreen(self.cursor, self._lookup), lambda _: self.redraw_around()
@@ -236,10 +235,6 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
         if event.value == display(segment, name):
             self.editor.show_problem(name, None)
             return
-        if self.screening:
-            self.editor.show_problem(name, "the corridor is being screened: wait, or Esc to cancel")
-            return
-        started = time.perf_counter()
         try:
             change = self.session.edit_field(row, name, event.value)
         except WallscreenError as err:
@@ -247,7 +242,6 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
             return
         self.editor.show_problem(name, None)
         self.apply(change)
-        self.last_edit_ms = (time.perf_counter() - started) * 1000.0
 
     def action_cancel_screen(self) -> None:
         if self.editor.display:

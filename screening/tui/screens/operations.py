@@ -17,10 +17,7 @@ class OperationsMixin:
     """For :class:`CorridorScreen`."""
 
     def _run(self, operation, *args) -> bool:
-        """Call a session operation; refuse while screening; show a refusal as a notice."""
-        if self.screening:
-            self.say("the corridor is being screened: wait, or Esc to cancel", "yellow")
-            return False
+        """Call a session operation; show a refusal as a notice."""
         try:
             change = operation(*args)
         except WallscreenError as err:
@@ -135,7 +132,7 @@ class OperationsMixin:
         if self.screening:
             return
         self.session.result = None
-        self.table.update_rows(
-            range(len(self.session.corridor.segments)), self.session.corridor, None
-        )
+        self.session.stale = set()
+        self.table.update_rows(range(len(self.session.corridor.segments)), self.session)
+        self.redraw_around()
         self.start_screen()

@@ -1,8 +1,11 @@
-"""Whole-corridor screens: at once for small corridors, in a thread worker for large ones.
+"""Screens off the UI thread: the whole corridor, and the rows an edit made stale.
 
-The worker drives ``engine.screen_iter`` chunk by chunk, reports progress to the strip and
-stops at the next chunk when cancelled; the interface keeps answering keys throughout.
-A result is only taken if the inputs did not change while it ran.
+The engine can take from milliseconds to seconds (slip-circle searches), so nothing is
+screened on the UI thread. A whole screen drives ``engine.screen_iter`` chunk by chunk,
+shows progress and stops at the next chunk when cancelled. Edited rows are screened in
+their own worker, one batch at a time: rows edited while a batch runs wait for the next,
+so fast typing never piles up work. Results are handed to ``Session.accept``, which keeps
+only what still matches the inputs.
 """
 
 from __future__ import annotations
@@ -16,34 +19,30 @@ from screening import engine
 from screening.engine.result import CorridorResult
 from screening.errors import WallscreenError
 from screening.model import Corridor
+from screening.tui.session import screen_rows
 from screening.tui.widgets.progress_strip import ProgressStrip
 
-IN_PLACE_LIMIT = 400
-"""Up to this many segments, a full screen runs on the UI thread (a few tens of ms)."""
 CHUNK = 250
 
 
 class ScreeningMixin:
-    """For :class:`CorridorScreen`: start, follow and cancel whole-corridor screens."""
+    """For :class:`CorridorScreen`: start, follow and cancel screens."""
 
     screening: bool = False
+    """A whole-corridor screen is running."""
+    rows_running: bool = False
+    """A batch of edited rows is being screened."""
     last_screen_s: float | None = None
+    last_edit_ms: float | None = None
+    """From the first edit of a batch to its row redrawn with new results, ms."""
+    _edit_started: float | None = None
+
+    # ------------------------------------------------------------------ whole corridor
 
     def start_screen(self) -> None:
         corridor = self.session.corridor
-        n = len(corridor.segments)
-        if n <= IN_PLACE_LIMIT:
-            started = time.perf_counter()
-            try:
-                result = engine.screen(corridor)
-            except WallscreenError as err:
-                self._screen_failed(err)
-                return
-            self.last_screen_s = time.perf_counter() - started
-            self._screen_done(corridor, result)
-            return
         self.screening = True
-        self.query_one(ProgressStrip).begin(n)
+        self.query_one(ProgressStrip).begin(len(corridor.segments))
         self._screen_in_background(corridor)
 
     @work(thread=True, exclusive=True, group="screen", exit_on_error=False)
@@ -61,7 +60,8 @@ class ScreeningMixin:
         except StopIteration as stop:
             result = stop.value
         except WallscreenError as err:
-            self.app.call_from_thread(self._screen_failed, err)
+            if not worker.is_cancelled:
+                self.app.call_from_thread(self._screen_failed, err)
             return
         if not worker.is_cancelled:
             self.last_screen_s = time.perf_counter() - started
@@ -70,13 +70,15 @@ class ScreeningMixin:
     def _screen_done(self, corridor: Corridor, result: CorridorResult) -> None:
         self.screening = False
         self.query_one(ProgressStrip).end()
-        if not self.session.accept_result(corridor, result):
-            self.start_screen()  # the inputs moved on meanwhile: screen them
+        if not self.session.accept(corridor, range(len(corridor.segments)), result):
+            if self.session.result is None:
+                self.start_screen()  # the segment list changed meanwhile: screen it
             return
-        self.table.update_rows(range(len(result)), corridor, result)
+        self.table.update_rows(range(len(result)), self.session)
         self.redraw_around()
-        if self.last_screen_s is not None and len(result) > IN_PLACE_LIMIT:
+        if self.last_screen_s is not None:
             self.say(f"screened {len(result):,} segments in {self.last_screen_s:.1f} s")
+        self.screen_stale_rows()
 
     def _screen_failed(self, err: WallscreenError) -> None:
         self.screening = False
@@ -89,3 +91,48 @@ class ScreeningMixin:
         self.screening = False
         self.query_one(ProgressStrip).end()
         self.say("screening cancelled: results are blank; ^r screens again", "yellow")
+
+    # ------------------------------------------------------------------ edited rows
+
+    def screen_stale_rows(self) -> None:
+        """Screen the stale rows in the background, unless a batch or a whole screen runs."""
+        session = self.session
+        if self.screening or self.rows_running or session.result is None or not session.stale:
+            return
+        if self._edit_started is None:
+            self._edit_started = time.perf_counter()
+        self.rows_running = True
+        self._rows_in_background(session.corridor, sorted(session.stale))
+
+    @work(thread=True, group="rows", exit_on_error=False)
+    def _rows_in_background(self, corridor: Corridor, rows: list[int]) -> None:
+        try:
+            result = screen_rows(corridor, rows)
+        except WallscreenError as err:
+            self.app.call_from_thread(self._rows_failed, err)
+            return
+        self.app.call_from_thread(self._rows_done, corridor, rows, result)
+
+    def _rows_done(self, corridor: Corridor, rows: list[int], result: CorridorResult) -> None:
+        self.rows_running = False
+        if self.session.accept(corridor, rows, result):
+            self.table.update_rows(rows, self.session)
+            self.redraw_around()
+            if not self.session.stale and self._edit_started is not None:
+                self.last_edit_ms = (time.perf_counter() - self._edit_started) * 1000.0
+                self._edit_started = None
+        self.screen_stale_rows()
+
+    def _rows_failed(self, err: WallscreenError) -> None:
+        self.rows_running = False
+        self.app.notify(str(err), title=err.title, severity="error", timeout=10)
+
+    @property
+    def busy(self) -> bool:
+        """Anything still being screened (tests and the benchmark wait on this)."""
+        return (
+            self.screening
+            or self.rows_running
+            or bool(self.session.stale)
+            or (self.session.result is None)
+        )

@@ -64,7 +64,12 @@ def column_chainages(start: np.ndarray, end: np.ndarray, width: int) -> tuple[np
 
 
 def section_text(
-    corridor: Corridor, result: CorridorResult | None, cursor: int, width: int, height: int
+    corridor: Corridor,
+    result: CorridorResult | None,
+    cursor: int,
+    width: int,
+    height: int,
+    stale: set[int] | frozenset[int] = frozenset(),
 ) -> Text:
     """The strip as text, ``width`` x ``height`` cells (at least 4 rows)."""
     segs = corridor.segments
@@ -89,7 +94,9 @@ def section_text(
     col_h = h.max(axis=0)
     occupied = inside.any(axis=0)
     if result is not None and len(result) == len(segs):
-        rank = np.array([RANK.get(v, 0) for v in result.verdict])
+        rank = np.array(
+            [-1 if i in stale else RANK.get(v, 0) for i, v in enumerate(result.verdict)]
+        )
         col_rank = np.where(inside, rank[:, None], -1).max(axis=0)
     else:
         col_rank = np.full(width, -1)
@@ -152,9 +159,17 @@ class LongSection(Widget):
         self._corridor: Corridor | None = None
         self._result: CorridorResult | None = None
         self._cursor = 0
+        self._stale: set[int] | frozenset[int] = frozenset()
 
-    def show(self, corridor: Corridor, result: CorridorResult | None, cursor: int) -> None:
+    def show(
+        self,
+        corridor: Corridor,
+        result: CorridorResult | None,
+        cursor: int,
+        stale: set[int] | frozenset[int] = frozenset(),
+    ) -> None:
         self._corridor, self._result, self._cursor = corridor, result, cursor
+        self._stale = frozenset(stale)
         self.refresh()
 
     def render(self) -> Text:
@@ -166,4 +181,5 @@ class LongSection(Widget):
             self._cursor,
             self.content_size.width,
             self.content_size.height,
+            self._stale,
         )

@@ -12,5 +12,10 @@ from screening.tui.cells import summary_text
 class SummaryBar(Static):
     """The corridor at a glance."""
 
-    def show(self, corridor: Corridor, result: CorridorResult | None) -> None:
-        self.update(summary_text(corridor, result))
+    def show(
+        self,
+        corridor: Corridor,
+        result: CorridorResult | None,
+        stale: set[int] | frozenset[int] = frozenset(),
+    ) -> None:
+        self.update(summary_text(corridor, result, stale))
