@@ -27,10 +27,12 @@ def read_profile(
     top_profile: str | None = None,
     toe_profile: str | None = None,
     notes: list[str] | None = None,
+    unit: str = "m",
 ) -> list[ProfileLine]:
     """Profile lines from a CSV or LandXML file, chosen by the file suffix.
 
     What was passed over (LandXML alignments without both profiles) goes to ``notes``.
+    ``unit`` (``m`` or ``ft``) is the unit of a CSV profile; LandXML says its own.
     """
     suffix = Path(path).suffix.lower()
     kind = PROFILE_SUFFIXES.get(suffix)
@@ -42,7 +44,7 @@ def read_profile(
     if kind == "csv":
         from screening.profile_csv import read_profile_csv
 
-        return read_profile_csv(path)
+        return read_profile_csv(path, unit=unit)
     from screening.profile_xml import read_profile_xml
 
     return read_profile_xml(path, top_profile=top_profile, toe_profile=toe_profile, skipped=notes)
@@ -224,6 +226,7 @@ def corridor_from_profile(
     top_profile: str | None = None,
     toe_profile: str | None = None,
     design_life_years: float | None = None,
+    profile_unit: str = "m",
 ) -> Corridor:
     """A new corridor whose segments come from a chainage profile.
 
@@ -236,6 +239,8 @@ def corridor_from_profile(
     corridor ``name``). Every segment takes ``defaults`` (None: :func:`starting_defaults`);
     edit them afterwards with :func:`edit_segments`. ``factor_set`` (or the preset
     ``factor_set_id``; neither: aashto-lrfd) and ``rules`` (None: the rules preset).
+    ``profile_unit``: ``ft`` for a CSV profile in feet (the corridor is always in metres);
+    ``max_step_m``, ``max_length_m`` and ``breaks`` are in metres whatever the profile.
     """
     source = str(path)
     _check_settings(source, max_step_m, max_length_m, min_height_m)
@@ -247,7 +252,9 @@ def corridor_from_profile(
 
         rules = load_presets().rules
     notes: list[str] = []
-    lines = read_profile(path, top_profile=top_profile, toe_profile=toe_profile, notes=notes)
+    lines = read_profile(
+        path, top_profile=top_profile, toe_profile=toe_profile, notes=notes, unit=profile_unit
+    )
     segments = segments_from_lines(
         lines,
         defaults,

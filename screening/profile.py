@@ -80,6 +80,9 @@ def read_profile_text(path: str | Path) -> str:
 # ------------------------------------------------------------------ number parsing
 
 _STATION = re.compile(r"^\s*(-?\d+)\+(\d{3}(?:\.\d*)?)\s*$")
+_STATION_FT = re.compile(r"^\s*(-?\d+)\+(\d{2}(?:\.\d*)?)\s*$")
+LENGTH_UNITS_M = {"m": 1.0, "ft": 0.3048}
+"""Metres per unit of a profile's lengths (international foot, NIST SP 811)."""
 
 
 def parse_number(text: str, *, decimal_comma: bool = False) -> float:
@@ -93,21 +96,27 @@ def parse_number(text: str, *, decimal_comma: bool = False) -> float:
     return value
 
 
-def parse_chainage(text: str, *, decimal_comma: bool = False) -> float:
-    """Chainage in metres: ``1250.5`` or the kilometre form ``1+250.500``.
+def parse_chainage(text: str, *, decimal_comma: bool = False, unit: str = "m") -> float:
+    """Chainage in the profile's unit: a number, or the station form with a ``+``.
 
-    The kilometre form needs exactly three digits of metres after the ``+``; anything
-    else is refused rather than guessed (``12+50`` could be 100-foot stations).
+    In metres the station form is kilometres+metres with exactly three digits of metres
+    (``1+250.500``); in feet it is hundreds of feet (``12+50.00`` = 1250 ft). Anything
+    else with a ``+`` is refused rather than guessed.
     """
     raw = text.strip()
     if decimal_comma:
         raw = raw.replace(",", ".")
     if "+" in raw[1:]:
-        match = _STATION.match(raw)
+        pattern, step, example = (
+            (_STATION_FT, 100.0, "hundreds of feet, e.g. 12+50.00")
+            if unit == "ft"
+            else (_STATION, 1000.0, "kilometres+metres, e.g. 1+250.000")
+        )
+        match = pattern.match(raw)
         if not match:
-            raise ValueError("chainage with '+' must be kilometres+metres, e.g. 1+250.000")
-        km, metres = int(match.group(1)), float(match.group(2))
-        return km * 1000.0 - metres if raw.startswith("-") else km * 1000.0 + metres
+            raise ValueError(f"chainage with '+' must be {example}")
+        whole, rest = int(match.group(1)), float(match.group(2))
+        return whole * step - rest if raw.startswith("-") else whole * step + rest
     return parse_number(raw)
 
 

@@ -27,10 +27,16 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from screening.errors import InputError
-from screening.profile import ProfileLine, parse_chainage, parse_number, read_profile_text
+from screening.profile import (
+    LENGTH_UNITS_M,
+    ProfileLine,
+    parse_chainage,
+    parse_number,
+    read_profile_text,
+)
 
 ALIASES = {
-    "chainage_m": ("chainage_m", "chainage", "ch_m", "ch"),
+    "chainage_m": ("chainage_m", "chainage", "ch_m", "ch", "station", "station_m", "sta"),
     "height_m": ("height_m", "height", "exposed_height_m", "exposed_height"),
     "top_level_m": ("top_level_m", "top_level", "top_m", "top"),
     "toe_level_m": ("toe_level_m", "toe_level", "toe_m", "toe"),
@@ -102,12 +108,17 @@ def _sniff(text: str) -> str:
     return best if counts[best] else ","
 
 
-def read_profile_csv(path: str | Path, *, text: str | None = None) -> list[ProfileLine]:
-    """Every wall and side in the file, in the order they first appear.
+def read_profile_csv(
+    path: str | Path, *, text: str | None = None, unit: str = "m"
+) -> list[ProfileLine]:
+    """Every wall and side in the file, in the order they first appear, in metres.
 
     ``text`` lets a caller pass the file contents (tests, the TUI); ``path`` then only
-    names the source in messages.
+    names the source in messages. ``unit``: ``m`` (default) or ``ft`` for a profile
+    whose chainages, heights and levels are in feet (stations like ``12+50.00``).
     """
+    if unit not in LENGTH_UNITS_M:
+        raise InputError(f"profile unit {unit!r}: use m or ft", file=str(path), field="unit")
     source = str(path)
     if text is None:
         text = read_profile_text(path)
@@ -136,7 +147,7 @@ def read_profile_csv(path: str | Path, *, text: str | None = None) -> list[Profi
                 line=line_no,
                 column=len(header) + 1,
             )
-        _read_row(row, line_no, cols, header, source, decimal_comma, lines)
+        _read_row(row, line_no, cols, header, source, decimal_comma, lines, unit)
     if cols is None:
         raise InputError(
             "the profile is empty: a header row and at least two rows are needed", file=source
@@ -168,6 +179,7 @@ def _read_row(
     source: str,
     decimal_comma: bool,
     lines: dict[tuple[str, str], _Line],
+    unit: str = "m",
 ) -> None:
     def cell(key: str) -> str:
         i = cols[key]
@@ -178,33 +190,46 @@ def _read_row(
             f"{header[cols[key]]}: {message}", file=source, line=line_no, column=cols[key] + 1
         )
 
+    to_m = LENGTH_UNITS_M[unit]
+
     def number(key: str, what: str) -> float:
         raw = cell(key)
         if not raw:
             raise fail(key, f"empty; give the {what}")
         try:
             if key == "chainage_m":
-                return parse_chainage(raw, decimal_comma=decimal_comma)
-            return parse_number(raw, decimal_comma=decimal_comma)
+                return parse_chainage(raw, decimal_comma=decimal_comma, unit=unit) * to_m
+            return parse_number(raw, decimal_comma=decimal_comma) * to_m
         except ValueError:
-            example = "1250.0 or 1+250.000" if key == "chainage_m" else "4.25"
-            raise fail(key, f"{raw!r} is not a number; write metres, e.g. {example}") from None
+            if unit == "ft":
+                example = (
+                    "feet, e.g. 1250.0 or 12+50.00" if key == "chainage_m" else "feet, e.g. 14.5"
+                )
+            else:
+                example = (
+                    "metres, e.g. 1250.0 or 1+250.000"
+                    if key == "chainage_m"
+                    else "metres, e.g. 4.25"
+                )
+            raise fail(key, f"{raw!r} is not a number; write {example}") from None
 
-    chainage = number("chainage_m", "chainage in metres")
+    u = "ft" if unit == "ft" else "m"
+    chainage = number("chainage_m", f"chainage in {u}")
     if "height_m" in cols:
-        height = number("height_m", "exposed height in metres")
+        height = number("height_m", f"exposed height in {u}")
         if height < 0.0:
             raise fail(
-                "height_m", f"exposed height {height:g} m is negative; use 0 where there is no wall"
+                "height_m",
+                f"exposed height {cell('height_m')} {u} is negative; use 0 where there is no wall",
             )
     else:
-        top = number("top_level_m", "level of the wall top in metres")
-        toe = number("toe_level_m", "ground level at the toe in metres")
+        top = number("top_level_m", f"level of the wall top in {u}")
+        toe = number("toe_level_m", f"ground level at the toe in {u}")
         height = top - toe
         if height < -1e-9:
             raise fail(
                 "toe_level_m",
-                f"toe level {toe:g} m is above the top level {top:g} m; "
+                f"toe level {cell('toe_level_m')} {u} is above the top level {cell('top_level_m')} {u}; "
                 "the top of the wall must be at or above the toe",
             )
         height = max(height, 0.0)

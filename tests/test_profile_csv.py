@@ -149,7 +149,7 @@ def test_semicolons_decimal_commas_kilometre_chainage_and_break_column():
         ),
         (
             "bad_levels.csv",
-            "bad_levels.csv:3:3: toe_level_m: toe level 10.5 m is above the top level 10 m; "
+            "bad_levels.csv:3:3: toe_level_m: toe level 10.5 m is above the top level 10.0 m; "
             "the top of the wall must be at or above the toe",
         ),
         (
@@ -244,3 +244,19 @@ def test_a_profile_corridor_saves_and_loads_back_unchanged(tmp_path):
 def test_unknown_factor_set_id_is_an_input_error():
     with pytest.raises(InputError, match="unknown factor set 'asdd' \\(did you mean 'asd'\\?\\)"):
         corridor_from_profile(DATA / "ramp.csv", name="x", factor_set_id="asdd")
+
+
+def test_profile_in_feet_with_hundred_foot_stations(tmp_path):
+    """12+50.00 is 1250 ft; 1 ft = 0.3048 m exactly (NIST SP 811). A 'station' header is a
+    chainage column."""
+    p = tmp_path / "feet.csv"
+    p.write_text("station,height\n10+00.00,10.0\n12+50.00,10.0\n")
+    c = corridor_from_profile(p, name="Feet", profile_unit="ft", max_length_m=100.0)
+    (seg,) = c.segments
+    assert seg.chainage_start_m == pytest.approx(1000 * 0.3048, abs=1e-3)
+    assert seg.chainage_end_m == pytest.approx(1250 * 0.3048, abs=1e-3)
+    assert seg.height_start_m == pytest.approx(3.048, abs=1e-3)
+    with pytest.raises(InputError, match="hundreds of feet, e.g. 12\\+50.00"):
+        read_profile_csv("f.csv", text="station,height\n1+250.000,3\n2+000.000,3\n", unit="ft")
+    with pytest.raises(InputError, match="profile unit 'yd': use m or ft"):
+        read_profile_csv("f.csv", text="station,height\n0,3\n10,3\n", unit="yd")
