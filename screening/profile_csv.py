@@ -200,7 +200,9 @@ def _read_row(
             if key == "chainage_m":
                 return parse_chainage(raw, decimal_comma=decimal_comma, unit=unit) * to_m
             return parse_number(raw, decimal_comma=decimal_comma) * to_m
-        except ValueError:
+        except ValueError as err:
+            if key == "chainage_m" and "+" in raw[1:]:
+                raise fail(key, f"{raw!r}: {err}") from None
             if unit == "ft":
                 example = (
                     "feet, e.g. 1250.0 or 12+50.00" if key == "chainage_m" else "feet, e.g. 14.5"

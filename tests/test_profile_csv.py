@@ -178,7 +178,7 @@ def test_bad_rows_name_line_column_and_what_is_valid(name, expected):
         ("chainage_m,height_m\n0,-1\n5,1\n", "exposed height -1 m is negative"),
         ("chainage_m,height_m,top_level_m,toe_level_m\n0,1,2,1\n", "not both"),
         ("chainage_m,top_level_m\n0,1\n", "no 'toe_level_m' column"),
-        ("chainage_m,height_m\n12+50,1\n", "write metres, e.g. 1250.0 or 1\\+250.000"),
+        ("chainage_m,height_m\n12+50,1\n", "must be kilometres\\+metres, e.g. 1\\+250.000"),
         ("chainage_m,height_m\n0,1\n0,2\n0,3\n", "appears three times"),
         ("chainage_m,height_m\n0,nan\n5,1\n", "is not a number"),
     ],
