@@ -27,7 +27,7 @@ from screening.engine.corrosion import steel_loss_per_side_mm
 from screening.engine.internal import Grades, InternalSetup, prepare, pullout_layers
 from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
 from screening.engine.sizing import evaluate, size_length
-from screening.engine.verdict import decide
+from screening.engine.verdict import SIZING_CHECKS, decide
 from screening.model import CHECKS, Corridor, FactorSet
 
 __all__ = [
@@ -99,7 +99,14 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
     sizing = size_length(ctx, setup, extras)
     checks, grades = evaluate(ctx, setup, extras, sizing.length_m)
     unchecked = {name for name in CHECKS if not a.cases.uses(name).any()}
-    outcome = decide(ctx, sizing, checks, unchecked)
+    layer_grade = np.where(setup.mask, grades.index, -1)
+    heaviest = (
+        (layer_grade >= (a.grade_count - 1)[:, None]) | (setup.mask & ~grades.passes_rupture)
+    ).any(axis=1)
+    sizing_names = SIZING_CHECKS + tuple(c.name for c in extras if c.sizes_length)
+    outcome = decide(
+        ctx, sizing, checks, unchecked, heaviest_grade=heaviest, sizing_names=sizing_names
+    )
     extra_arrays: dict[str, object] = {
         "embedment_ratio": ctx.geom.embedment_ratio,
         "max_length_m": ctx.geom.max_length_m,

@@ -6,9 +6,19 @@ all segments; only the sentences are written one by one, for the segments a mask
 - refer: a check fails at the chosen L (which is the longest screening tries when nothing
   passes), or the segment is outside the scope of screening (too high, soft foundation,
   marginal fill, water in the fill, steep backslope, strong shaking, tiered or back-to-back).
-- marginal: it passes, but the smallest CDR is below Rules.marginal_cdr, or the checks pushed
-  L beyond Rules.marginal_length_ratio*H, or H exceeds Rules.marginal_height_m.
+- marginal: it passes, but a margin is thin (below), or the checks pushed L beyond
+  Rules.marginal_length_ratio*H, or H exceeds Rules.marginal_height_m.
 - clear: otherwise.
+
+Which CDRs count as a thin margin (a change from METHOD §7's "smallest CDR below 1.10",
+which marked almost every passing segment marginal): screening chooses the lightest grade
+per layer and the shortest passing L, so some CDRs sit just above 1.0 by construction and
+say nothing about risk. Those are left out of the thin-margin test:
+- rupture (and pullout of steel, whose coverage comes with the grade): tuned per layer by
+  the grade choice; instead a layer that needs the heaviest grade of its family is thin;
+- every check that sizes L, when the checks lengthened L beyond the rule of thumb: the
+  lengthening itself is the answer, reported in words, and L > 0.9H catches a costly one.
+A check that passes at the rule-of-thumb length by less than Rules.marginal_cdr is thin.
 """
 
 from __future__ import annotations
@@ -68,10 +78,23 @@ def _scope(ctx: ScreenContext) -> list[tuple[str, BoolArray, Callable[[int], str
     ]  # fmt: skip
 
 
+SIZING_CHECKS = ("sliding", "eccentricity", "bearing", "pullout")
+
+
 def decide(
-    ctx: ScreenContext, sizing: Sizing, checks: dict[str, CheckValues], unchecked: set[str]
+    ctx: ScreenContext,
+    sizing: Sizing,
+    checks: dict[str, CheckValues],
+    unchecked: set[str],
+    *,
+    heaviest_grade: BoolArray | None = None,
+    sizing_names: tuple[str, ...] = SIZING_CHECKS,
 ) -> Outcome:
-    """Verdict, reasons, governing check and smallest CDR of every segment."""
+    """Verdict, reasons, governing check and smallest CDR of every segment.
+
+    ``heaviest_grade`` (n,): some layer needs the heaviest grade of its family (or none
+    carries it). ``sizing_names``: the checks that set L (built-in and added).
+    """
     n, r = ctx.n, ctx.a.rules
     h, length = ctx.geom.design_height_m, sizing.length_m
     names = [k for k in checks if k not in unchecked]
@@ -112,28 +135,49 @@ def decide(
             f"no length up to {r.max_screen_length_ratio:g}H passes every check: full design needed"
         )
 
-    low_cdr = min_cdr < r.marginal_cdr
+    lengthened = length > ctx.geom.rule_length_m + 1e-9
+    thin = np.full(n, np.inf)
+    thin_name = np.full(n, "", dtype=object)
+    for name in names:
+        cdr = np.asarray(checks[name].cdr, dtype=np.float64)
+        counts = np.ones(n, dtype=bool)
+        if name == "rupture":
+            counts[:] = False
+        elif name == "pullout":
+            counts = ~ctx.a.inextensible & ~lengthened
+        elif name in sizing_names:
+            counts = ~lengthened
+        take = counts & (cdr < thin)
+        thin = np.where(take, cdr, thin)
+        thin_name = np.where(take, name, thin_name)
+    low_cdr = thin < r.marginal_cdr
+    top_grade = np.zeros(n, dtype=bool) if heaviest_grade is None else heaviest_grade
     long_l = (length > r.marginal_length_ratio * h + 1e-9) & (length > r.rule_length_min_m + 1e-9)
     long_l &= ~sizing.exhausted  # at the search limit the failing check says it all
     tall = h > r.marginal_height_m + 1e-9
     refer = out_of_scope | failed | sizing.exhausted
+    thin_l, thin_name_l = thin.tolist(), thin_name.tolist()
     for i in np.flatnonzero(low_cdr & ~refer).tolist():
-        reasons[i].append(f"smallest CDR {cdr_min_l[i]:.2f} ({gov_l[i]}) < {r.marginal_cdr:g}")
+        reasons[i].append(
+            f"{thin_name_l[i]} passes with little margin: CDR {thin_l[i]:.2f} < "
+            f"{r.marginal_cdr:g} at the rule-of-thumb length"
+        )
+    for i in np.flatnonzero(top_grade & ~refer).tolist():
+        reasons[i].append("a layer needs the heaviest grade of its reinforcement family")
     for i in np.flatnonzero(long_l).tolist():
         reasons[i].append(
             f"L = {length_l[i]:.1f} m is {ratio_l[i]:.2f}H > {r.marginal_length_ratio:g}H"
         )
     for i in np.flatnonzero(tall & ~out_of_scope).tolist():
         reasons[i].append(f"design height {h_l[i]:.1f} m > {r.marginal_height_m:g} m")
-    marginal = ~refer & (low_cdr | long_l | tall)
+    marginal = ~refer & (low_cdr | top_grade | long_l | tall)
     clear = ~refer & ~marginal
     for i in np.flatnonzero(clear).tolist():
         reasons[i].append(
-            f"every check passes with CDR ≥ {r.marginal_cdr:g} "
-            f"(smallest {cdr_min_l[i]:.2f}, {gov_l[i]})"
+            f"every check passes (smallest CDR {cdr_min_l[i]:.2f}, {gov_l[i]}); "
+            "no margin below the thresholds"
         )
     rule = ctx.geom.rule_length_m
-    lengthened = length > rule + 1e-9
     rule_l = rule.tolist()
     for i in np.flatnonzero(lengthened & ~sizing.exhausted).tolist():
         reasons[i].append(
