@@ -166,5 +166,7 @@ def test_an_input_left_at_its_own_value_changes_nothing():
         )
         assert surcharge.low == 0.0
         assert surcharge.length_low_m == float(base.length_m[i])
-        assert surcharge.min_cdr_low == pytest.approx(float(base.min_cdr[i]), rel=1e-12)
+        # the slip search starts from circles found for other rows of the same screen, so
+        # its critical factor agrees within the search's tolerance, not to the last digit
+        assert surcharge.min_cdr_low == pytest.approx(float(base.min_cdr[i]), rel=1e-3)
         assert surcharge.verdict_low == base.verdict[i]
