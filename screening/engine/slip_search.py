@@ -65,7 +65,7 @@ class SearchDensity:
 
 
 STANDARD = SearchDensity(
-    exit_fractions=(0.0, 0.1, 0.25, 0.5, 0.9),
+    exit_fractions=(0.0, 0.07, 0.17, 0.3, 0.5, 0.9),
     entry_fractions_of_length=(0.3, 0.6, 0.9),
     entry_beyond_heights=(0.1, 0.3, 0.6, 1.0, 1.6),
     angles_deg=(25.0, 45.0, 65.0, 85.0, 105.0),
