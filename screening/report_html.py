@@ -88,6 +88,7 @@ def render_html(data: ReportData) -> str:
 
     add('<h2 id="summary">Summary</h2>')
     add(table_html(tables.summary(data)))
+    add(table_html(tables.by_wall(data)))
     if data.flagged:
         add(table_html(tables.reasons(data)))
     for note in data.notes:

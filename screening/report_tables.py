@@ -71,6 +71,40 @@ def summary(data: ReportData) -> Table:
     )
 
 
+def by_wall(data: ReportData) -> Table:
+    """Per wall: chainage range, tallest exposed height, segments per verdict, face, cost."""
+    r, c, q = data.result, data.corridor, data.quantities
+    groups: dict[str, list[int]] = {}
+    for i, s in enumerate(c.segments):
+        groups.setdefault(s.wall, []).append(i)
+    rows = []
+    for wall, idx in groups.items():
+        segs = [c.segments[i] for i in idx]
+        counts = [sum(r.verdict[i] == v for i in idx) for v in VERDICTS]
+        row = [
+            wall,
+            f"{_num(data, min(s.chainage_start_m for s in segs), 'm', 1)}–"
+            f"{_num(data, max(s.chainage_end_m for s in segs), 'm', 1)}",
+            _num(data, max(s.exposed_height_m for s in segs), "m"),
+            *(str(n) for n in counts),
+            _num(data, sum(s.face_area_m2 for s in segs), "m2"),
+        ]
+        if q is not None:
+            row.append(f"{sum(q.segments[i].cost_total for i in idx):,.0f}")
+        rows.append(row)
+    m = _u(data, "m")
+    header = [
+        "wall",
+        f"chainage ({m})",
+        f"tallest exposed ({m})",
+        *VERDICTS,
+        f"exposed face ({_u(data, 'm2')})",
+    ]
+    if q is not None:
+        header.append(f"rough cost ({q.rates.currency})")
+    return Table("Summary by wall", header, rows)
+
+
 def reasons(data: ReportData) -> Table:
     r = data.result
     rows = [[r.ids[i], r.verdict[i], "; ".join(r.reasons[i])] for i in data.flagged]

@@ -37,6 +37,7 @@ def render_markdown(data: ReportData) -> str:
         "## Summary",
         "",
         table_md(tables.summary(data)),
+        table_md(tables.by_wall(data)),
     ]
     if data.flagged:
         out.append(table_md(tables.reasons(data)))

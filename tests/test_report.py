@@ -212,3 +212,24 @@ def test_cross_sections_beyond_the_limit_are_left_out_with_a_note(screened):
         assert any(
             n.startswith(f"Cross-sections drawn for 1 of {len(flagged)}") for n in data.notes
         )
+
+
+def test_summary_by_wall_counts_every_segment_once(screened, tmp_path):
+    from screening.report_tables import by_wall
+
+    corridor, result = screened
+    data = build_report_data(corridor, result, sensitivity=False)
+    table = by_wall(data)
+    assert [row[0] for row in table.rows] == ["North", "South"]
+    assert sum(int(x) for row in table.rows for x in row[3:6]) == len(result)
+    # exposed face of North by hand: trapezoids 0.5(h0 + h1) x 20 m
+    assert float(table.rows[0][6]) == pytest.approx(0.5 * (5 + 8 + 18) * 20.0, abs=0.05)
+
+
+def test_us_units_report_labels(screened, tmp_path):
+    corridor, result = screened
+    text = write_report(corridor, result, tmp_path / "us.md", units="us").read_text(
+        encoding="utf-8"
+    )
+    assert "units US" in text and "L (ft)" in text and "length of wall (ft)" in text
+    assert "L (m)" not in text
