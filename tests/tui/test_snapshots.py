@@ -21,6 +21,7 @@ def picture(snap_compare, keys: list[str], *, cautions: bool = False) -> bool:
         from .test_workflows import settle
 
         await settle(pilot, app)
+        app.corridor_screen.say("")  # it reports how long the screen took: not repeatable
         await pilot.press(*keys)
         await settle(pilot, app)
 

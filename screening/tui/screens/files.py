@@ -35,6 +35,8 @@ def _writable(raw: str) -> None:
 class FilesMixin:
     """For :class:`CorridorScreen`."""
 
+    _pending_save: tuple[Path | None, Callable[[], None] | None] | None = None
+
     def remember(self, path: Path) -> None:
         state = load_state()
         state.remember(path)
@@ -59,23 +61,39 @@ class FilesMixin:
 
     # ------------------------------------------------------------------ save
 
-    def _write(self, path: Path | None = None) -> bool:
+    def _write(self, path: Path | None = None, then: Callable[[], None] | None = None) -> None:
+        """Save now, or as soon as the screen in progress lands, so the file never
+        carries results that do not match its inputs; then run ``then``."""
+        if self.busy:
+            if self.session.result is None and not self.screening:
+                self.start_screen()  # a cancelled screen: results are needed to save
+            self._pending_save = (path, then)
+            self.say("saving as soon as the screen in progress lands…", "yellow")
+            return
+        self._pending_save = None
         try:
             target = self.session.save(path)
         except (WallscreenError, OSError) as err:
             title = getattr(err, "title", "Could not save")
             self.app.notify(str(err), title=title, severity="error", timeout=10)
-            return False
+            return
         self.remember(target)
         self.redraw_around()
         self.say(f"saved {target}")
-        return True
+        if then is not None:
+            then()
+
+    def flush_pending_save(self) -> None:
+        """Called whenever a screen lands: do a save that was waiting for it."""
+        pending = getattr(self, "_pending_save", None)
+        if pending is not None and not self.busy:
+            self._write(*pending)
 
     def save_then(self, then: Callable[[], None] | None = None) -> None:
         if self.session.path is None:
             self.action_save_as(then)
-        elif self._write() and then is not None:
-            then()
+        else:
+            self._write(None, then)
 
     def action_save(self) -> None:
         self.save_then(None)
@@ -84,8 +102,8 @@ class FilesMixin:
         current = str(self.session.path) if self.session.path else "corridor.toml"
 
         def done(raw: str | None) -> None:
-            if raw is not None and self._write(Path(raw).expanduser()) and then is not None:
-                then()
+            if raw is not None:
+                self._write(Path(raw).expanduser(), then)
 
         self.app.push_screen(
             PromptScreen("Save as", "Path of the corridor file to write:", current, _writable), done

@@ -79,6 +79,7 @@ class ScreeningMixin:
         if self.last_screen_s is not None:
             self.say(f"screened {len(result):,} segments in {self.last_screen_s:.1f} s")
         self.screen_stale_rows()
+        self.flush_pending_save()
 
     def _screen_failed(self, err: WallscreenError) -> None:
         self.screening = False
@@ -122,6 +123,7 @@ class ScreeningMixin:
                 self.last_edit_ms = (time.perf_counter() - self._edit_started) * 1000.0
                 self._edit_started = None
         self.screen_stale_rows()
+        self.flush_pending_save()
 
     def _rows_failed(self, err: WallscreenError) -> None:
         self.rows_running = False
