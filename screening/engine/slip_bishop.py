@@ -109,8 +109,10 @@ def bishop_factor(
         if moving.mean() > 0.25:
             m_alpha = np.maximum(cos_a + slope_f / np.maximum(factor, _TINY)[:, None], floor_f)
             new = np.maximum((np.sum(top_f / m_alpha, axis=-1) + rest_f) / drive_f, 0.0)
-            moving &= np.abs(new - factor) >= tolerance
-            factor = np.where(active.reshape(-1), new, factor)
+            # Each surface stops at its own convergence, whatever else is in the batch.
+            step = np.abs(new - factor)
+            factor = np.where(moving, new, factor)
+            moving &= step >= tolerance
             continue
         todo = np.flatnonzero(moving)
         c, sl, tp, fl = cos_a[todo], slope_f[todo], top_f[todo], floor_f[todo]
@@ -119,8 +121,9 @@ def bishop_factor(
         while iterations <= max_iterations:
             m_alpha = np.maximum(c + sl / np.maximum(val, _TINY)[:, None], fl)
             new = np.maximum((np.sum(tp / m_alpha, axis=-1) + rs) / dr, 0.0)
-            still = np.abs(new - val) >= tolerance
-            val = new
+            step = np.abs(new - val)
+            val = np.where(still, new, val)
+            still &= step >= tolerance
             if not still.any() or iterations == max_iterations:
                 break
             iterations += 1

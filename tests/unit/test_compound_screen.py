@@ -128,3 +128,27 @@ def test_static_segments_have_no_seismic_demand():
     assert r.checks["seismic"].cdr[0] == pytest.approx(99.0)
     assert "kh0 = 0" in r.checks["seismic"].detail[0]
     assert r.governing[0] != "seismic"
+
+
+def test_slip_results_do_not_depend_on_the_batch():
+    """A segment's circle and CDR are the same screened alone, in a corridor, or in chunks
+    (each Bishop iteration stops on its own convergence; common practice for reproducible
+    results, no source)."""
+    from screening.engine import screen_iter
+
+    base = corridor(DENSE_SAND)
+    segs = tuple(
+        dataclasses.replace(base.segments[0], id=f"B-{i}", height_start_m=h, height_end_m=h)
+        for i, h in enumerate((3.0, 5.0, 7.0, 9.0))
+    )
+    c = dataclasses.replace(base, segments=segs)
+    whole = screen(c)
+    gen = screen_iter(c, chunk_size=1)
+    while True:
+        try:
+            next(gen)
+        except StopIteration as stop:
+            parts = stop.value
+            break
+    for name in ("compound", "global"):
+        np.testing.assert_allclose(whole.checks[name].cdr, parts.checks[name].cdr, rtol=1e-12)
