@@ -329,7 +329,8 @@ def monte_carlo(data: ReportData) -> Table | None:
     ]
     m = _u(data, "m")
     return Table(
-        f"Monte Carlo: {mc.samples} draws, seed {mc.seed}",
+        f"Monte Carlo: {mc.samples} draws, seed {mc.seed}"
+        + (", core checks only (compound search left out)" if mc.core_only else ""),
         [
             "segment",
             "verdict",

@@ -307,6 +307,8 @@ class MonteCarlo:
     length_p90_m: np.ndarray
     """90th percentile of L per segment."""
     base_verdict: list[str]
+    core_only: bool = False
+    """True when the compound search was left out (``extra_checks=()``)."""
 
     def robust(self, threshold: float = 0.9) -> np.ndarray:
         """True where the base verdict comes out in at least ``threshold`` of the draws."""
@@ -379,4 +381,5 @@ def monte_carlo(
         length_mean_m=length.mean(axis=0),
         length_p90_m=np.percentile(length, 90, axis=0),
         base_verdict=list(base.verdict),
+        core_only=extra_checks is not None and len(extra_checks) == 0,
     )
