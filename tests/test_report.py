@@ -187,6 +187,10 @@ def test_monte_carlo_section_when_asked(screened, tmp_path):
         corridor, result, tmp_path / "mc.md", monte_carlo_samples=10, seed=3
     ).read_text()
     assert "Monte Carlo: 10 draws, seed 3" in text
+    quick = write_report(
+        corridor, result, tmp_path / "q.md", monte_carlo_samples=10, monte_carlo_core_only=True
+    ).read_text()
+    assert "core checks only (compound search left out)" in quick
 
 
 def test_cross_sections_find_the_critical_circles_the_screen_reports(screened):
