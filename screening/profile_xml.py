@@ -304,23 +304,41 @@ def read_profile_xml(
     return out
 
 
+def _sides(x: np.ndarray, xp: np.ndarray, yp: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Level just before and just after each station ``x`` of a piecewise-linear profile
+    whose repeated stations are steps (the first value holds before, the last after)."""
+    last = len(xp) - 1
+
+    def at(k: np.ndarray, exact: np.ndarray) -> np.ndarray:
+        a = np.clip(k - 1, 0, last)
+        b = np.clip(k, 0, last)
+        span = np.where(xp[b] > xp[a], xp[b] - xp[a], 1.0)
+        between = yp[a] + (yp[b] - yp[a]) * np.clip((x - xp[a]) / span, 0.0, 1.0)
+        return np.where(exact, yp[np.clip(k, 0, last)], between)
+
+    left = np.searchsorted(xp, x, side="left")
+    before = at(left, (left <= last) & (xp[np.clip(left, 0, last)] == x))
+    right = np.searchsorted(xp, x, side="right") - 1
+    after_exact = (right >= 0) & (xp[np.clip(right, 0, last)] == x)
+    after = np.where(after_exact, yp[np.clip(right, 0, last)], before)
+    return before, after
+
+
 def _height_line(
     name: str, tx: np.ndarray, ty: np.ndarray, gx: np.ndarray, gy: np.ndarray, lo: float, hi: float
 ) -> ProfileLine:
-    """Top minus toe on the union of both profiles' stations (steps kept as repeated stations)."""
+    """Top minus toe on the union of both profiles' stations; a step in either profile
+    gives two points at one station (the height before and after it)."""
     xs = np.unique(np.concatenate([tx, gx, [lo, hi]]))
     xs = xs[(xs >= lo) & (xs <= hi)]
-    sta: list[float] = []
-    hts: list[float] = []
-    for x in xs:
-        # a repeated station in either profile is a step: evaluate both sides of it
-        t_vals = ty[tx == x] if np.count_nonzero(tx == x) > 1 else [np.interp(x, tx, ty)]
-        g_vals = gy[gx == x] if np.count_nonzero(gx == x) > 1 else [np.interp(x, gx, gy)]
-        before = float(t_vals[0] - g_vals[0])
-        after = float(t_vals[-1] - g_vals[-1])
-        sta.append(float(x))
-        hts.append(max(before, 0.0))
-        if after != before:
-            sta.append(float(x))
-            hts.append(max(after, 0.0))
-    return ProfileLine(name, "", tuple(sta), tuple(hts))
+    t0, t1 = _sides(xs, tx, ty)
+    g0, g1 = _sides(xs, gx, gy)
+    before = np.maximum(t0 - g0, 0.0)
+    after = np.maximum(t1 - g1, 0.0)
+    step = after != before
+    sta = np.repeat(xs, np.where(step, 2, 1))
+    hts = np.empty(sta.shape)
+    first = np.concatenate([[0], np.cumsum(np.where(step, 2, 1))[:-1]])
+    hts[first] = before
+    hts[first[step] + 1] = after[step]
+    return ProfileLine(name, "", tuple(sta.tolist()), tuple(hts.tolist()))
