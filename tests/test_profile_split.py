@@ -94,3 +94,34 @@ def test_wall_codes_are_short_and_unique():
     assert wall_code("East approach, ramp") == "EAR"
     assert wall_code("East approach", taken=["EA"]) == "EA2"
     assert wall_code("") == "W"
+
+
+@settings(max_examples=60, deadline=None)
+@given(profiles(), st.sampled_from([0.25, 0.5, 1.0]), st.sampled_from([12.5, 30.0]))
+def test_every_profile_corridor_is_a_valid_file(profile, step, max_len):
+    """Whatever the profile, the corridor it gives must load back from its own file:
+    unique ids, no overlaps within a wall, every segment at least one spacing high."""
+    import dataclasses
+
+    from screening import store
+    from screening.corridor import segments_from_lines, starting_defaults
+    from screening.presets import load_presets
+    from screening.profile import ProfileLine
+
+    ch, h = profile
+    if h.max() < 1.0:
+        h = h + 1.0  # a wall somewhere, so there is a corridor to write
+    defaults = starting_defaults()
+    lines = [
+        ProfileLine("A", "left", tuple(ch), tuple(h)),
+        ProfileLine("A", "right", tuple(ch), tuple(h[::-1])),
+    ]
+    segs = segments_from_lines(lines, defaults, max_step_m=step, max_length_m=max_len)
+    if not segs:
+        return
+    presets = load_presets()
+    from screening.model import Corridor
+
+    c = Corridor("p", presets.factor_sets["aashto-lrfd"], defaults, segs, presets.rules)
+    again = store.loads(store.dumps(c), "p.toml")
+    assert again == dataclasses.replace(c)
