@@ -34,7 +34,7 @@ from screening.engine.slip_check import CompoundResult, compound_check
 from screening.engine.slip_search import STANDARD
 from screening.engine.slip_wall import Factors, WallSlipInput
 
-__all__ = ["EXTRA_CHECKS", "CompoundResult", "compound_check", "slip_input"]
+__all__ = ["EXTRA_CHECKS", "CompoundResult", "compound_check", "shared_search", "slip_input"]
 
 
 # --------------------------------------------------------------------------- engine hook
@@ -125,7 +125,7 @@ class _Memo:
         return self.order[pos]
 
     def get(
-        self, ctx: ScreenContext, length_m: FloatArray, rows: np.ndarray
+        self, ctx: ScreenContext, length_m: FloatArray, rows: np.ndarray, runner
     ) -> dict[str, np.ndarray]:
         length = np.asarray(length_m, dtype=np.float64)
         n = len(self.ids)
@@ -134,16 +134,8 @@ class _Memo:
         passed_shorter = (known < length) & (self.cdr[rows] >= 1.0)
         todo = np.flatnonzero(~(same | passed_shorter))
         if todo.size:
-            inp = slip_input(ctx, length).take(todo)
             target = rows[todo]
-            found = compound_check(
-                inp,
-                ctx.a.method,
-                ctx.a.resistance,
-                _case_rows(ctx),
-                STANDARD,
-                warm=self.params[target],
-            )
+            found = runner(ctx, length, todo, self.params[target])
             fresh = _flatten(found)
             # Keep every critical circle found (a library of modes, oldest dropped first).
             params = np.stack([found.compound.params, found.global_.params], axis=1)
@@ -192,28 +184,44 @@ def _flatten(found: CompoundResult) -> dict[str, np.ndarray]:
     return out
 
 
-_MEMOS: dict[int, tuple[weakref.ref, _Memo]] = {}
-"""One memo per screen, keyed by its load-case record (shared by a context and its subsets)."""
+def _static_run(ctx: ScreenContext, length_m, todo, warm) -> CompoundResult:
+    """The static check under the factor set, for rows ``todo`` of ``ctx``."""
+    inp = slip_input(ctx, length_m).take(todo)
+    cases = _case_rows(ctx)
+    return compound_check(inp, ctx.a.method, ctx.a.resistance, cases, STANDARD, warm=warm)
 
 
-def _lookup(ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
+_MEMOS: dict[tuple[int, str], tuple[weakref.ref, _Memo]] = {}
+"""One memo per screen and kind of run, keyed by the screen's load-case record (shared by a
+context and its subsets)."""
+
+
+def shared_search(
+    ctx: ScreenContext, length_m: FloatArray, tag: str = "static", runner=_static_run
+) -> dict[str, np.ndarray]:
+    """Slip results of every row of ``ctx`` at ``length_m`` through the screen's memo.
+
+    ``runner(ctx, length_m, todo, warm) -> CompoundResult`` searches rows ``todo``;
+    ``tag`` names the kind of run (one memo each). Values are (n,) arrays keyed
+    ``"<family>_<field>"`` for the families compound and global.
+    """
     for key in [k for k, (ref, _) in _MEMOS.items() if ref() is None]:
         del _MEMOS[key]
     owner = ctx.a.cases
-    entry = _MEMOS.get(id(owner))
+    entry = _MEMOS.get((id(owner), tag))
     rows = None
     if entry is not None and entry[0]() is owner:
         rows = entry[1].rows(ctx.a.ids)
     if rows is None:
         entry = (weakref.ref(owner), _Memo(list(ctx.a.ids)))
-        _MEMOS[id(owner)] = entry
+        _MEMOS[(id(owner), tag)] = entry
         rows = np.arange(ctx.n)
-    return entry[1].get(ctx, length_m, rows)
+    return entry[1].get(ctx, length_m, rows, runner)
 
 
 def _family_values(family: str):
     def evaluate(ctx: ScreenContext, length_m: FloatArray) -> tuple:
-        v = _lookup(ctx, length_m)
+        v = shared_search(ctx, length_m)
         converged = v[f"{family}_converged"]
         found = v[f"{family}_found"]
         # A critical circle whose iteration did not settle is not trusted: the segment fails
@@ -248,7 +256,7 @@ def _family_values(family: str):
 def _report(ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
     """Critical circles at the chosen L for CorridorResult.extras (coordinates: x from the
     face into the fill, y above the base of the reinforced zone, metres)."""
-    v = _lookup(ctx, length_m)
+    v = shared_search(ctx, length_m)
     out = {}
     for fam in ("compound", "global"):
         out[f"{fam}_circle_x_m"] = v[f"{fam}_centre_x_m"]

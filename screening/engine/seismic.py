@@ -20,12 +20,15 @@
 - Extreme Event I [mem, AASHTO Tables 3.4.1-1 and 11.5.8-1]: load factors 1.0 (EQ, EV, EH,
   ES), live load gamma_EQ = 0.5 where it drives; resistance factors sliding 1.0, bearing 1.0,
   pullout 1.2, rupture of steel strips 1.0, of steel grids 0.85, of geosynthetics 1.2;
-  resultant within 0.4L on soil (0.45L on rock). Allowable stress: every required FS at 75 %
+  resultant within 0.4L on soil (0.45L on rock); overall (compound and global) stability by
+  the slip search with a pseudo-static kh on every slice, phi 0.9. Allowable stress: every required FS at 75 %
   of its static value [mem, FHWA-NHI-00-043]. Partial-factor sets: all factors 1.0 (the
   accidental design situation of EN 1997-1 Annex A) [mem].
 """
 
 from __future__ import annotations
+
+from dataclasses import replace
 
 import numpy as np
 
@@ -46,6 +49,9 @@ EXTREME_ECCENTRICITY = (0.4, 0.45)
 """e/L limits (soil, rock) in Extreme Event I [mem, AASHTO 11.6.5.1]."""
 ASD_SEISMIC_RATIO = 0.75
 """Seismic FS required = 75 % of the static FS [mem, FHWA-NHI-00-043]."""
+EXTREME_OVERALL = 0.9
+"""Resistance factor of overall (compound and global) stability in Extreme Event I
+[mem, AASHTO LRFD 11.6.5]."""
 
 
 def seismic_angle_deg(kh: FloatArray, kv: FloatArray | float = 0.0) -> FloatArray:
@@ -146,13 +152,14 @@ def _resistances(ctx: ScreenContext) -> dict[str, FloatArray]:
     }
 
 
-SUBCHECKS = ("sliding", "eccentricity", "bearing", "pullout", "rupture")
+SUBCHECKS = ("sliding", "eccentricity", "bearing", "pullout", "rupture", "overall")
 UNITS = {
     "sliding": "kN/m",
     "eccentricity": "m",
     "bearing": "kPa",
     "pullout": "kN/m",
     "rupture": "kN/m",
+    "overall": "kN·m/m",
 }
 
 
@@ -243,6 +250,7 @@ def seismic_checks(ctx: ScreenContext, length_m: FloatArray) -> dict[str, tuple]
         "pullout": worst_layer(pull_cap),
         "rupture": worst_layer(rup_cap),
     }
+    out["overall"] = overall_stability(ctx, length)
     shaking = a.seismic_kh > 0
     for key, (dem, cap, cdr) in out.items():
         cdr = np.clip(np.nan_to_num(cdr, nan=0.0, posinf=CDR_CAP), 0.0, CDR_CAP)
@@ -251,6 +259,50 @@ def seismic_checks(ctx: ScreenContext, length_m: FloatArray) -> dict[str, tuple]
     out["kh"] = kh
     out["valid"] = valid | ~shaking
     return out
+
+
+def _overall_run(ctx: ScreenContext, length_m, todo, warm):
+    """Pseudo-static slip search of rows ``todo``: kh on every slice, live load x gamma_EQ,
+    unfactored soil strengths, the extreme-event resistance factor."""
+    from screening.engine.compound import slip_input
+    from screening.engine.slip_check import compound_check
+    from screening.engine.slip_search import STANDARD
+    from screening.engine.slip_wall import Factors
+
+    a = ctx.a
+    inp = slip_input(ctx, length_m).take(todo)
+    inp = replace(inp, live_kpa=LIVE_LOAD_FACTOR_EQ * inp.live_kpa)
+    kh = wall_kh(a.seismic_kh, ~a.abutment)[todo]
+    if a.method == "lrfd":
+        phi = {"compound": EXTREME_OVERALL}
+    elif a.method == "asd":
+        phi = {
+            "compound": a.resistance["compound"] / ASD_SEISMIC_RATIO,
+            "compound_abutment": a.resistance.get("compound_abutment", a.resistance["compound"])
+            / ASD_SEISMIC_RATIO,
+        }
+    else:
+        phi = {"compound": 1.0}
+    cases = [Factors("Extreme Event I")]
+    return compound_check(inp, "partial-factor", phi, cases, STANDARD, kh=kh, warm=warm)
+
+
+def overall_stability(ctx: ScreenContext, length_m: FloatArray) -> tuple:
+    """(demand, capacity, cdr) of the pseudo-static compound/global search, (n,); only the
+    segments with shaking are searched (the others get CDR_CAP)."""
+    from screening.engine.compound import shared_search
+
+    n = ctx.n
+    demand, capacity, cdr = np.zeros(n), np.zeros(n), np.full(n, CDR_CAP)
+    rows = np.flatnonzero(ctx.a.seismic_kh > 0)
+    if rows.size:
+        v = shared_search(ctx.take(rows), np.asarray(length_m)[rows], "seismic", _overall_run)
+        pick = v["global_cdr"] < v["compound_cdr"]
+        for name, target in (("demand", demand), ("capacity", capacity), ("cdr", cdr)):
+            target[rows] = np.where(pick, v[f"global_{name}"], v[f"compound_{name}"])
+        stuck = ~(v["compound_converged"] & v["global_converged"])
+        cdr[rows[stuck]] = 0.0
+    return demand, capacity, cdr
 
 
 def evaluate_seismic(ctx: ScreenContext, length_m: FloatArray) -> tuple:
