@@ -26,7 +26,6 @@ from screening.engine.result import CorridorResult
 from screening.model import Corridor, FactorSet, Segment
 
 SENSITIVITY_FILE = "sensitivity.toml"
-VERDICT_RANK = {"clear": 0, "marginal": 1, "refer": 2}
 
 
 @dataclass(frozen=True)
