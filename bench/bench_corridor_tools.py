@@ -72,6 +72,10 @@ def main() -> None:
             lambda: monte_carlo(demo, args.samples, seed=1),
         )
         timed(
+            f"Monte Carlo, core checks only, {args.samples} x {len(demo.segments)}",
+            lambda: monte_carlo(demo, args.samples, seed=1, extra_checks=()),
+        )
+        timed(
             "HTML report of the demo corridor",
             lambda: write_report(demo, demo_result, Path(tmp) / "r.html"),
         )
