@@ -49,15 +49,33 @@ def _parser() -> argparse.ArgumentParser:
 
     n = sub.add_parser("new", help="build a corridor file from a chainage profile")
     n.add_argument("file", type=Path, help="corridor file to write")
-    n.add_argument("--from-profile", type=Path, required=True, metavar="PROFILE",
-                   help="CSV (chainage + levels or height) or LandXML profile")
+    n.add_argument(
+        "--from-profile",
+        type=Path,
+        required=True,
+        metavar="PROFILE",
+        help="CSV (chainage + levels or height) or LandXML profile",
+    )
     n.add_argument("--name", help="corridor name (default: the profile's file name)")
-    n.add_argument("--max-step", type=float, default=0.5, metavar="M",
-                   help="new segment when the height changes by more than this (m)")
-    n.add_argument("--max-length", type=float, default=30.0, metavar="M",
-                   help="longest segment (m)")
-    n.add_argument("--break", dest="breaks", type=float, action="append", default=[],
-                   metavar="CHAINAGE", help="also split at this chainage (repeatable)")
+    n.add_argument(
+        "--max-step",
+        type=float,
+        default=0.5,
+        metavar="M",
+        help="new segment when the height changes by more than this (m)",
+    )
+    n.add_argument(
+        "--max-length", type=float, default=30.0, metavar="M", help="longest segment (m)"
+    )
+    n.add_argument(
+        "--break",
+        dest="breaks",
+        type=float,
+        action="append",
+        default=[],
+        metavar="CHAINAGE",
+        help="also split at this chainage (repeatable)",
+    )
     n.add_argument("--factor-set", metavar="ID", default="aashto-lrfd")
     n.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
 
@@ -142,6 +160,8 @@ def _load_and_screen(path: Path, factor_set_id: str | None):
 
 def _cmd_check(args: argparse.Namespace) -> int:
     corridor, result = _load_and_screen(args.file, args.factor_set)
+    for line in stale_results(args.file, result):
+        print(f"wallscreen: warning: {line}", file=sys.stderr)
     if args.json:
         from screening.jsonout import corridor_json
 
@@ -152,6 +172,35 @@ def _cmd_check(args: argparse.Namespace) -> int:
     if args.strict and "refer" in result.verdict:
         return EXIT_REFER
     return EXIT_OK
+
+
+def stale_results(path: Path, result) -> list[str]:
+    """Where the results a file carries from its last save disagree with a fresh screen.
+
+    Results in a file are never inputs; a disagreement means the engine, the presets or the
+    factor set changed since the file was saved, which the design team should know.
+    """
+    from screening.store import stored_screen
+
+    stored = stored_screen(path.read_text(encoding="utf-8"), str(path))
+    if stored is None or stored.screen.get("factor_set") != result.factor_set:
+        return []
+    out = []
+    for i, sid in enumerate(result.ids):
+        old = stored.results.get(sid)
+        if old is None:
+            continue
+        was, now = old.get("verdict"), result.verdict[i]
+        old_length = old.get("length_m")
+        moved = isinstance(old_length, int | float) and abs(old_length - result.length_m[i]) > 0.05
+        if was != now or moved:
+            out.append(
+                f"{path}: segment {sid}: the file says {was}, L = {old_length} m; a fresh screen "
+                f"gives {now}, L = {result.length_m[i]:.1f} m (engine "
+                f"{stored.screen.get('engine_version')} -> {result.engine_version}); "
+                "save again to update the file"
+            )
+    return out
 
 
 def _table(corridor, result) -> str:
@@ -300,8 +349,11 @@ def _open_tui(path: Path | None) -> int:
     from screening.errors import InputError
 
     if path is not None and not path.exists():
-        raise InputError("no such file; give an existing corridor file, or "
-                         "`wallscreen new FILE --from-profile PROFILE` to make one", file=str(path))
+        raise InputError(
+            "no such file; give an existing corridor file, or "
+            "`wallscreen new FILE --from-profile PROFILE` to make one",
+            file=str(path),
+        )
     from screening.tui.app import run_app
 
     return run_app(path)

@@ -290,6 +290,13 @@ def _document(corridor: model.Corridor, result: Any, presets: Presets) -> dict[s
     doc["segment"] = [
         _segment_table(s, d, presets, result, rows.get(s.id)) for s in corridor.segments
     ]
+    if result is not None:
+        # Quantities travel with the outcome so the design team sees them in the file.
+        from screening.quantities import corridor_quantities
+
+        quantities = corridor_quantities(corridor, result).segments
+        for table, q in zip(doc["segment"], quantities, strict=True):
+            table["result"]["quantities"] = q.as_result()
     return doc
 
 

@@ -45,7 +45,7 @@ def key(name: str) -> str:
     return name if _BARE.match(name) else tomli_w.dumps({"k": name})[4:].strip()
 
 
-_PLAIN = re.compile(r"^[ -!#-\[\]-~]*$")
+_PLAIN = re.compile(r"[ -!#-\[\]-~]*")
 """Printable ASCII without quote or backslash: written between quotes as it is."""
 
 
@@ -55,7 +55,7 @@ def scalar(value: Any) -> str:
         return "true" if value else "false"
     if isinstance(value, float) and math.isfinite(value):
         return repr(value)  # what tomli_w writes too; reads back exactly
-    if isinstance(value, str) and _PLAIN.match(value):
+    if isinstance(value, str) and _PLAIN.fullmatch(value):
         return f'"{value}"'
     if isinstance(value, int | float | str | datetime.date | datetime.time):
         return tomli_w.dumps({"v": value})[4:].rstrip("\n")

@@ -18,8 +18,9 @@ DEMO = demo_corridor_path()
 
 
 def run(*args: str) -> subprocess.CompletedProcess[str]:
-    return subprocess.run([sys.executable, "-m", "screening", *args], capture_output=True,
-                          text=True)
+    return subprocess.run(
+        [sys.executable, "-m", "screening", *args], capture_output=True, text=True
+    )
 
 
 def test_check_json_has_design_shape(capsys: pytest.CaptureFixture[str]) -> None:
@@ -48,8 +49,9 @@ def test_check_table_and_strict_exit_code() -> None:
 
 
 @pytest.mark.parametrize("factor_set", ["aashto-lrfd", "asd", "en1997-da1", "bs8006"])
-def test_every_factor_set_screens_the_demo(factor_set: str,
-                                           capsys: pytest.CaptureFixture[str]) -> None:
+def test_every_factor_set_screens_the_demo(
+    factor_set: str, capsys: pytest.CaptureFixture[str]
+) -> None:
     assert main(["check", str(DEMO), "--json", "--factor-set", factor_set]) == 0
     data = json.loads(capsys.readouterr().out)
     assert data["factor_set"] == factor_set
@@ -83,3 +85,26 @@ def test_presets_json_lists_every_kind(capsys: pytest.CaptureFixture[str]) -> No
     assert kinds == {"fill", "reinforcement", "factor-set", "rules"}
     ids = {row["id"] for row in data}
     assert {"aashto-lrfd", "asd", "en1997-da1", "bs8006"} <= ids
+
+
+def test_stale_results_in_a_file_are_warned_about(tmp_path: Path) -> None:
+    """Results in a file are ignored on load, but a disagreement with a fresh screen is
+    reported (DESIGN.md: 'a warning if they disagree with a fresh run')."""
+    from screening import store
+    from screening.engine import screen
+
+    corridor = store.load(DEMO)
+    path = tmp_path / "c.toml"
+    store.save(path, corridor, screen(corridor))
+    text = path.read_text(encoding="utf-8")
+    first = corridor.segments[0].id
+    marker = f'id = "{first}"'
+    head, tail = text.split(marker, 1)
+    tail = tail.replace('verdict = "', 'verdict = "x', 1)
+    path.write_text(head + marker + tail, encoding="utf-8")
+    out = run("check", str(path))
+    assert out.returncode == 0
+    assert f"segment {first}: the file says x" in out.stderr
+    fresh = tmp_path / "fresh.toml"
+    store.save(fresh, corridor, screen(corridor))
+    assert "warning" not in run("check", str(fresh)).stderr
