@@ -46,6 +46,19 @@ def _parser() -> argparse.ArgumentParser:
     r.add_argument("-o", "--output", type=Path, required=True, help="OUT.html | OUT.md | OUT.csv")
     r.add_argument("--factor-set", metavar="ID")
     r.add_argument("--units", choices=("si", "us"), default="si", help="display units")
+    r.add_argument(
+        "--monte-carlo",
+        type=int,
+        default=0,
+        metavar="N",
+        help="add each segment's probability of refer over N seeded samples",
+    )
+    r.add_argument("--seed", type=int, default=0, help="seed of the Monte Carlo samples")
+    r.add_argument(
+        "--no-sensitivity",
+        action="store_true",
+        help="leave out the ranked sensitivity of marginal and referred segments",
+    )
 
     n = sub.add_parser("new", help="build a corridor file from a chainage profile")
     n.add_argument("file", type=Path, help="corridor file to write")
@@ -77,6 +90,12 @@ def _parser() -> argparse.ArgumentParser:
         help="also split at this chainage (repeatable)",
     )
     n.add_argument("--factor-set", metavar="ID", default="aashto-lrfd")
+    n.add_argument(
+        "--profile-unit",
+        choices=("m", "ft"),
+        default="m",
+        help="unit of a CSV profile's chainages and levels (the file is always SI)",
+    )
     n.add_argument("--force", action="store_true", help="overwrite FILE if it exists")
 
     s = sub.add_parser("presets", help="list every preset with its values")
@@ -254,7 +273,19 @@ def _cmd_report(args: argparse.Namespace) -> int:
             file=str(args.output),
         )
     corridor, result = _load_and_screen(args.file, args.factor_set)
-    write_report(corridor, result, args.output, units=args.units)
+    if args.monte_carlo < 0:
+        raise InputError(
+            "--monte-carlo must be 0 or a positive number of samples", file="--monte-carlo"
+        )
+    write_report(
+        corridor,
+        result,
+        args.output,
+        units=args.units,
+        sensitivity=not args.no_sensitivity,
+        monte_carlo_samples=args.monte_carlo,
+        seed=args.seed,
+    )
     print(f"wrote {args.output}")
     return EXIT_OK
 
@@ -275,6 +306,7 @@ def _cmd_new(args: argparse.Namespace) -> int:
         max_step_m=args.max_step,
         max_length_m=args.max_length,
         breaks=tuple(args.breaks),
+        profile_unit=args.profile_unit,
     )
     store.save(args.file, corridor)
     print(f"wrote {args.file}: {len(corridor.segments)} segments")
