@@ -91,6 +91,8 @@ def slip_input(ctx: ScreenContext, length_m: FloatArray) -> WallSlipInput:
 
 LIBRARY = 6
 """Critical circles remembered per segment to start the search at another length."""
+LENGTHS = 16
+"""Lengths whose results are remembered per segment (sizing tries about ten)."""
 
 
 class _Memo:
@@ -109,8 +111,10 @@ class _Memo:
         self.order = np.argsort(self.ids, kind="stable")
         self.sorted_ids = self.ids[self.order]
         n = len(ids)
-        self.length = np.full(n, np.nan)
-        self.cdr = np.full(n, -np.inf)
+        # Results at up to LENGTHS lengths per segment (oldest overwritten first).
+        self.length = np.full((n, LENGTHS), np.nan)
+        self.cdr = np.full((n, LENGTHS), -np.inf)
+        self.slot = np.zeros(n, dtype=np.int64)
         self.params = np.full((n, LIBRARY, 3), np.nan)
         self.values: dict[str, np.ndarray] = {}
 
@@ -128,11 +132,14 @@ class _Memo:
         self, ctx: ScreenContext, length_m: FloatArray, rows: np.ndarray, runner
     ) -> dict[str, np.ndarray]:
         length = np.asarray(length_m, dtype=np.float64)
-        n = len(self.ids)
-        known = self.length[rows]
-        same = np.abs(known - length) < 1e-9
-        passed_shorter = (known < length) & (self.cdr[rows] >= 1.0)
-        todo = np.flatnonzero(~(same | passed_shorter))
+        known = self.length[rows]  # (r, LENGTHS)
+        same = np.abs(known - length[:, None]) < 1e-9
+        # A length already searched, or a shorter one that passed (the answer stands).
+        passed = (known < length[:, None]) & (self.cdr[rows] >= 1.0)
+        score = np.where(same, 2, np.where(passed, 1, 0))
+        use = np.argmax(score + np.where(passed, known, 0.0) * 1e-6, axis=1)
+        hit = np.take_along_axis(score, use[:, None], 1)[:, 0] > 0
+        todo = np.flatnonzero(~hit)
         if todo.size:
             target = rows[todo]
             found = runner(ctx, length, todo, self.params[target])
@@ -140,17 +147,21 @@ class _Memo:
             # Keep every critical circle found (a library of modes, oldest dropped first).
             params = np.stack([found.compound.params, found.global_.params], axis=1)
             self.params[target] = np.concatenate([params, self.params[target]], axis=1)[:, :LIBRARY]
+            slot = self.slot[target]
             for key, value in fresh.items():
                 if key not in self.values:
+                    shape = (len(self.ids), LENGTHS)
                     self.values[key] = (
-                        np.zeros(n, dtype=value.dtype)
+                        np.zeros(shape, dtype=value.dtype)
                         if value.dtype != object
-                        else np.full(n, "", dtype=object)
+                        else np.full(shape, "", dtype=object)
                     )
-                self.values[key][target] = value
-            self.length[target] = length[todo]
-            self.cdr[target] = np.minimum(fresh["compound_cdr"], fresh["global_cdr"])
-        return {key: value[rows] for key, value in self.values.items()}
+                self.values[key][target, slot] = value
+            self.length[target, slot] = length[todo]
+            self.cdr[target, slot] = np.minimum(fresh["compound_cdr"], fresh["global_cdr"])
+            self.slot[target] = (slot + 1) % LENGTHS
+            use[todo] = slot
+        return {key: value[rows, use] for key, value in self.values.items()}
 
 
 def _case_rows(ctx: ScreenContext) -> list[Factors]:

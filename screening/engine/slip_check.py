@@ -179,9 +179,13 @@ def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSe
         if use_warm:
             h = sub.height_m[pick]
             steps = np.stack([0.05 * h, 0.05 * h, np.full(pick.size, np.radians(4.0))], axis=-1)
-            found = search(sec, so, lay, warm_rows[pick], b, WARM, kh[pick], initial_steps=steps)
-            # A family the refinement lost (its circle changed family with L): full search.
-            lost = np.flatnonzero(~(found.compound.found & found.global_.found))
+            seeds = _global_seeds(sub.take(pick))
+            start = np.concatenate([warm_rows[pick], seeds], axis=1)
+            found = search(sec, so, lay, start, b, WARM, kh[pick], initial_steps=steps)
+            # A family lost (every known circle of it changed family with L): full search.
+            # Known circles come in (compound, global) pairs, so odd places are global.
+            had_global = np.any(np.all(np.isfinite(warm[rows][pick, 1::2]), axis=2), axis=1)
+            lost = np.flatnonzero(~found.compound.found | (had_global & ~found.global_.found))
             if lost.size:
                 again = search(
                     _take(sec, lost),
@@ -216,6 +220,16 @@ def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSe
             )
         parts.append((pick, found))
     return _join(rows.size, parts)
+
+
+def _global_seeds(inp: WallSlipInput) -> FloatArray:
+    """Four deep circles under the reinforced zone (n, 4, 3), so a warm refinement always has
+    a start in the global family even when the known global circle turned compound."""
+    h, length = inp.height_m, inp.length_m
+    exit_ = np.stack([-0.5 * h] * 2 + [-1.0 * h] * 2, axis=1)
+    entry = np.stack([length + 0.3 * h, length + h] * 2, axis=1)
+    angle = np.broadcast_to(np.radians([80.0, 70.0, 90.0, 80.0]), exit_.shape)
+    return np.stack([exit_, entry, angle], axis=-1)
 
 
 def _take(obj, pick):

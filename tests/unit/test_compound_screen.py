@@ -152,3 +152,15 @@ def test_slip_results_do_not_depend_on_the_batch():
             break
     for name in ("compound", "global"):
         np.testing.assert_allclose(whole.checks[name].cdr, parts.checks[name].cdr, rtol=1e-12)
+
+
+def test_sizing_and_the_reported_check_agree():
+    """METHOD section 7: the chosen L passes every check unless the search ran out of
+    lengths, so the slip checks reported at L agree with what sizing saw there."""
+    from screening import presets
+
+    r = screen(store.load(presets.demo_corridor_path()))
+    exhausted = np.asarray(r.extras["search_exhausted"], dtype=bool)
+    for name in ("compound", "global"):
+        cdr = r.checks[name].cdr
+        assert np.all((cdr >= 1.0 - 1e-9) | exhausted), name
