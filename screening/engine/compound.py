@@ -219,10 +219,14 @@ def shared_search(
     for key in [k for k, (ref, _) in _MEMOS.items() if ref() is None]:
         del _MEMOS[key]
     owner = ctx.a.cases
+    unique = np.unique(np.asarray(ctx.a.ids, dtype=str)).size == ctx.n
+    if not unique:
+        # Ids repeat (a corridor built in code): rows cannot be matched, so no sharing.
+        owner, tag = ctx, f"{tag}-own"
     entry = _MEMOS.get((id(owner), tag))
     rows = None
     if entry is not None and entry[0]() is owner:
-        rows = entry[1].rows(ctx.a.ids)
+        rows = entry[1].rows(ctx.a.ids) if unique else np.arange(ctx.n)
     if rows is None:
         entry = (weakref.ref(owner), _Memo(list(ctx.a.ids)))
         _MEMOS[(id(owner), tag)] = entry
