@@ -33,6 +33,8 @@ from screening.engine.slip_geometry import (
 )
 
 FAMILIES = ("compound", "global")
+CHUNK_CIRCLES = 16_000
+"""Segment-circles evaluated together (x slices each): bounds memory, keeps numpy busy."""
 COMPOUND, GLOBAL = 0, 1
 INVALID = -1
 
@@ -215,7 +217,8 @@ def evaluate(
 def _evaluate_params(section, soils, layers, params, density, kh):
     """params (n, c, 3) -> factor, converged, family, circles; evaluated in chunks of circles."""
     n, c, _ = params.shape
-    step = max(1, density.circles_per_chunk)
+    # A chunk holds about CHUNK_CIRCLES segment-circles: few segments, many circles at once.
+    step = max(1, density.circles_per_chunk, CHUNK_CIRCLES // max(n, 1))
     out_f, out_ok, out_cls, out_geo = [], [], [], []
     for start in range(0, c, step):  # chunks of trial circles, never of segments
         p = params[:, start : start + step]
