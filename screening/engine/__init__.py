@@ -100,8 +100,10 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
     checks, grades = evaluate(ctx, setup, extras, sizing.length_m)
     unchecked = {name for name in CHECKS if not a.cases.uses(name).any()}
     layer_grade = np.where(setup.mask, grades.index, -1)
+    several = (a.grade_count > 1)[:, None]
     heaviest = (
-        (layer_grade >= (a.grade_count - 1)[:, None]) | (setup.mask & ~grades.passes_rupture)
+        (several & (layer_grade >= (a.grade_count - 1)[:, None]))
+        | (setup.mask & ~grades.passes_rupture)
     ).any(axis=1)
     sizing_names = SIZING_CHECKS + tuple(c.name for c in extras if c.sizes_length)
     outcome = decide(

@@ -38,6 +38,7 @@ from screening.engine.context import ExtraCheck, ScreenContext
 from screening.engine.external import UNDRAINED_NC, water_factor
 from screening.engine.pressure import coulomb_ka, rankine_ka, vesic_factors
 from screening.engine.result import CDR_CAP, BoolArray, FloatArray
+from screening.engine.slip_wall import toe_slope_bearing_factors
 
 LIVE_LOAD_FACTOR_EQ = 0.5
 """gamma_EQ on live load in Extreme Event I [mem, AASHTO C3.4.1]."""
@@ -207,8 +208,13 @@ def seismic_checks(ctx: ScreenContext, length_m: FloatArray) -> dict[str, tuple]
     width = np.maximum(length - 2 * np.abs(e_bear), 0.01 * length)
     nc, _, ngamma = vesic_factors(a.found_friction_deg)
     cw = water_factor(a.found_water_depth_m, width)
-    q_n = a.found_cohesion_kpa * nc + 0.5 * a.found_unit_weight_kn_m3 * width * ngamma * cw
-    q_n = np.where(np.isnan(cu), q_n, np.fmin(q_n, UNDRAINED_NC * cu))
+    # Toe slope in front: the same Vesic (1975) ground-inclination factors as static bearing.
+    g_c, g_gamma, g_cu = toe_slope_bearing_factors(a.toe_slope_deg, a.found_friction_deg)
+    q_n = (
+        a.found_cohesion_kpa * nc * g_c
+        + 0.5 * a.found_unit_weight_kn_m3 * width * ngamma * cw * g_gamma
+    )
+    q_n = np.where(np.isnan(cu), q_n, np.fmin(q_n, UNDRAINED_NC * cu * g_cu))
     sigma = v_bear / width
 
     # Internal: static T_max (load factors 1.0) plus the share of kh W_A by resistant length.

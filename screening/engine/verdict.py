@@ -6,8 +6,10 @@ all segments; only the sentences are written one by one, for the segments a mask
 - refer: a check fails at the chosen L (which is the longest screening tries when nothing
   passes), or the segment is outside the scope of screening (too high, soft foundation,
   marginal fill, water in the fill, steep backslope, strong shaking, tiered or back-to-back).
-- marginal: it passes, but a margin is thin (below), or the checks pushed L beyond
-  Rules.marginal_length_ratio*H, or H exceeds Rules.marginal_height_m.
+- marginal: it passes, but a margin is thin (below), or L exceeds
+  Rules.marginal_length_ratio*H (and the 2.4 m minimum length: a short wall at the minimum
+  is not long for its height in any costly sense), whether the checks or the rule of thumb
+  for a steep backslope set it, or H exceeds Rules.marginal_height_m.
 - clear: otherwise.
 
 Which CDRs count as a thin margin (a change from METHOD §7's "smallest CDR below 1.10",
@@ -15,7 +17,8 @@ which marked almost every passing segment marginal): screening chooses the light
 per layer and the shortest passing L, so some CDRs sit just above 1.0 by construction and
 say nothing about risk. Those are left out of the thin-margin test:
 - rupture (and pullout of steel, whose coverage comes with the grade): tuned per layer by
-  the grade choice; instead a layer that needs the heaviest grade of its family is thin;
+  the grade choice; instead a layer that needs the heaviest grade of a family of several
+  grades is thin (a one-grade family is judged by its rupture CDR);
 - every check that sizes L, when the checks lengthened L beyond the rule of thumb: the
   lengthening itself is the answer, reported in words, and L > 0.9H catches a costly one.
 A check that passes at the rule-of-thumb length by less than Rules.marginal_cdr is thin.
@@ -67,6 +70,10 @@ def _scope(ctx: ScreenContext) -> list[tuple[str, BoolArray, Callable[[int], str
         ("backslope", a.backslope_deg > r.max_backslope_deg + 1e-9,
          lambda i: f"backslope {a.backslope_deg[i]:.1f}° steeper than {r.max_backslope_deg:g}° "
          "(2H:1V): outside screening"),
+        ("backslope", a.backslope_deg > a.retained_friction_deg + 1e-9,
+         lambda i: f"backslope {a.backslope_deg[i]:.1f}° steeper than the retained soil's "
+         f"friction angle {a.retained_friction_deg[i]:.0f}°: the slope itself is not stable, "
+         "outside screening"),
         ("seismic", a.seismic_kh > r.max_seismic_kh + 1e-12,
          lambda i: f"seismic kh {a.seismic_kh[i]:.2f} > {r.max_seismic_kh:g}: outside screening"),
         # Added with the seismic check (engine/seismic.py): M-O without a solution.
@@ -142,7 +149,8 @@ def decide(
         cdr = np.asarray(checks[name].cdr, dtype=np.float64)
         counts = np.ones(n, dtype=bool)
         if name == "rupture":
-            counts[:] = False
+            # Grade-tuned, unless the family has a single grade (nothing was chosen).
+            counts = ctx.a.grade_count <= 1
         elif name == "pullout":
             counts = ~ctx.a.inextensible & ~lengthened
         elif name in sizing_names:

@@ -63,10 +63,27 @@ def test_heaviest_grade_needed_is_marginal() -> None:
     """A layer that needs the top grade of its family leaves no room: marginal (ours)."""
     from screening.engine.samples import STRIP
 
-    top_only = replace(STRIP, grades=STRIP.grades[-1:])
-    r = screen(make_corridor([make_segment(0, reinforcement=top_only)]), extra_checks=())
-    assert r.verdict == ["marginal"]
+    light = replace(STRIP, grades=STRIP.grades[:2])  # 2 and 3 strips/m only
+    seg = make_segment(
+        0, height_start_m=9.0, height_end_m=9.0, reinforcement=light, surcharge_kpa=80.0
+    )
+    r = screen(make_corridor([seg]), extra_checks=())
+    assert r.verdict[0] in ("marginal", "refer")
     assert any("heaviest grade" in x for x in r.reasons[0])
+    # A family of one grade chose nothing: it is judged by its rupture CDR instead.
+    one = replace(STRIP, grades=STRIP.grades[-1:])
+    r1 = screen(make_corridor([make_segment(0, reinforcement=one)]), extra_checks=())
+    assert not any("heaviest grade" in x for x in r1.reasons[0])
+
+
+def test_backslope_steeper_than_retained_friction_is_referred() -> None:
+    """A slope steeper than the friction angle of its soil is not stable on its own
+    (infinite-slope limit, F = tanφ/tanβ < 1; Taylor 1948 and any soil mechanics text)."""
+    from screening.model import Soil
+
+    seg = make_segment(0, backslope_deg=20.0, retained=Soil(19.0, 18.0))
+    r = screen(make_corridor([seg]), extra_checks=())
+    assert r.verdict == ["refer"] and r.governing == ["backslope"]
 
 
 def test_lengthened_wall_is_judged_by_its_length_not_its_sized_cdr() -> None:
