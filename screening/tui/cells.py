@@ -25,7 +25,7 @@ COLUMNS: tuple[tuple[str, str, int], ...] = (
     ("ratio", "L/H", 5),
     ("governing", "Governs", 15),
     ("cdr", "min CDR", 7),
-    ("verdict", "Verdict", 10),
+    ("verdict", "Verdict", 11),
     ("fill", "Fill", 20),
     ("reinforcement", "Reinforcement", 15),
     ("traffic", "Traffic", 9),
@@ -63,27 +63,46 @@ def input_cells(seg: Segment) -> dict[str, Text]:
     }
 
 
-def result_cells(result: CorridorResult | None, i: int, pending: bool = False) -> dict[str, Text]:
-    """The cells that come from the screen (ellipses while it is not yet known)."""
+def result_cells(
+    result: CorridorResult | None, i: int, pending: bool = False, provisional: bool = False
+) -> dict[str, Text]:
+    """The cells that come from the screen (ellipses while it is not yet known).
+
+    ``provisional``: the built-in checks only, while the slip-circle checks still run;
+    the verdict then carries a trailing ellipsis and the numbers are in italics.
+    """
     if result is None or pending:
         blank = Text(PENDING, style="dim")
         return {k: blank for k in ("length", "ratio", "governing", "cdr", "verdict")}
     cdr = float(result.min_cdr[i])
     verdict = result.verdict[i]
     weak = cdr < 1.0
-    return {
+    cells = {
         "length": Text(f"{result.length_m[i]:.1f}", justify="right"),
         "ratio": Text(f"{result.length_ratio[i]:.2f}", justify="right"),
         "governing": Text(result.governing[i]),
         "cdr": Text(f"{cdr:.2f}", justify="right", style="bold red" if weak else ""),
         "verdict": verdict_text(verdict),
     }
+    if provisional:
+        for cell in cells.values():
+            cell.stylize("italic")
+        cells["verdict"].append(PENDING, style="dim")
+    return cells
 
 
 def row_cells(
-    seg: Segment, result: CorridorResult | None, i: int, pending: bool = False
+    seg: Segment,
+    result: CorridorResult | None,
+    i: int,
+    pending: bool = False,
+    quick: tuple[CorridorResult, int] | None = None,
 ) -> list[Text]:
-    cells = input_cells(seg) | result_cells(result, i, pending)
+    """A table row; a pending row with a ``quick`` (built-in checks) result shows that."""
+    if pending and quick is not None:
+        cells = input_cells(seg) | result_cells(quick[0], quick[1], provisional=True)
+    else:
+        cells = input_cells(seg) | result_cells(result, i, pending)
     return [cells[key] for key, _, _ in COLUMNS]
 
 

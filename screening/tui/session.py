@@ -73,10 +73,11 @@ def chainage_order(segments: tuple[Segment, ...]) -> tuple[Segment, ...]:
     return tuple(sorted(segments, key=lambda s: (s.chainage_start_m, s.wall)))
 
 
-def screen_rows(corridor: Corridor, rows: list[int]) -> CorridorResult:
-    """Screen only ``rows`` of ``corridor`` (a corridor of those segments, same settings)."""
+def screen_rows(corridor: Corridor, rows: list[int], **options: object) -> CorridorResult:
+    """Screen only ``rows`` of ``corridor`` (a corridor of those segments, same settings);
+    ``options`` go to ``engine.screen`` (``extra_checks=()``: the built-in checks only)."""
     sub = dataclasses.replace(corridor, segments=tuple(corridor.segments[i] for i in rows))
-    return engine.screen(sub)
+    return engine.screen(sub, **options)
 
 
 class Session:
@@ -90,6 +91,9 @@ class Session:
         """Last screen; None until the whole corridor has been screened (again)."""
         self.stale: set[int] = set()
         """Rows whose inputs changed after ``result`` was made: to re-screen."""
+        self.quick: dict[int, tuple[Segment, CorridorResult, int]] = {}
+        """Stale rows already screened by the built-in checks only (no slip circles), shown
+        as provisional until the full screen of the row lands: row -> (segment, result, k)."""
         self.path = path
         """File it was read from and saves to; None for the unsaved demo copy."""
         self.presets = presets
@@ -157,7 +161,22 @@ class Session:
             self.result = engine.merge(self.result, rows, result)
         fresh = {i for i in rows if corridor.segments[i] is now.segments[i]}
         self.stale = (self.stale - fresh) | (set(rows) - fresh)
+        for i in fresh:
+            self.quick.pop(i, None)
         return True
+
+    def quick_screen(self, rows: list[int]) -> None:
+        """The built-in checks only, on this thread (milliseconds a row), for ``rows``."""
+        sub = screen_rows(self.corridor, rows, extra_checks=())
+        for k, i in enumerate(rows):
+            self.quick[i] = (self.corridor.segments[i], sub, k)
+
+    def provisional(self, row: int) -> tuple[CorridorResult, int] | None:
+        """The built-in checks' result of a stale row, if made for its current inputs."""
+        entry = self.quick.get(row)
+        if entry is None or row not in self.stale or entry[0] is not self.corridor.segments[row]:
+            return None
+        return entry[1], entry[2]
 
     def pending(self, row: int) -> bool:
         """True while ``row`` has no up-to-date result."""
@@ -227,6 +246,7 @@ class Session:
         self._set_segments(segments)
         self.result = None
         self.stale = set()
+        self.quick.clear()
         return Change(label, None, cursor)
 
     def _taken(self) -> set[str]:
@@ -323,6 +343,7 @@ class Session:
         self.corridor = dataclasses.replace(self.corridor, factor_set=factor_sets[factor_set_id])
         self.result = None
         self.stale = set()
+        self.quick.clear()
         return Change(f"factor set {factor_set_id}", None)
 
     # ------------------------------------------------------------------ undo / files
@@ -357,6 +378,7 @@ class Session:
                 if a is not b
             )
         self.corridor, self.result, self.stale = state.corridor, state.result, set(state.stale)
+        self.quick.clear()
         return Change(label, rows)
 
     def save(self, path: Path | None = None) -> Path:

@@ -69,6 +69,8 @@ def test_line_of_maximum_tension_passes_through_each_layer(demo):
     scale = res.length_m / (back - face)  # metres per column
     for r, layer in zip(layer_rows(lines, face), res.layers, strict=True):
         col = lines[r].find("•")
+        if layer.active_length_m < scale and col == -1:  # at the facing: hidden behind it
+            continue
         assert col > face
         assert (col - face) * scale == pytest.approx(layer.active_length_m, abs=1.5 * scale)
 

@@ -4,6 +4,8 @@ the long section under it. Corridor operations and file actions live in their ow
 
 from __future__ import annotations
 
+import contextlib
+
 from rich.text import Text
 from textual import on
 from textual.app import ComposeResult
@@ -26,6 +28,9 @@ from screening.tui.widgets.progress_strip import ProgressStrip
 from screening.tui.widgets.segment_editor import SegmentEditor, field_of
 from screening.tui.widgets.summary_bar import SummaryBar
 from screening.tui.widgets.title_bar import CautionLine, TitleBar
+
+QUICK_ROWS = 20
+"""Edits of up to this many rows show the built-in checks at once, before slip circles."""
 
 
 def _bindings() -> list[Binding]:
@@ -85,7 +90,8 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
         self.redraw_around()
         self.table.focus()
         if session.result is None:
-            self.start_screen()
+            # after the first frame is on screen: the engine's thread competes for the GIL
+            self.call_after_refresh(self.start_screen)
 
     # ------------------------------------------------------------------ redraw
 
@@ -106,6 +112,9 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
             return
         s = self.session
         if change.rows is not None and s.result is not None:
+            if len(change.rows) <= QUICK_ROWS:
+                with contextlib.suppress(WallscreenError):
+                    s.quick_screen(list(change.rows))  # milliseconds: shown at once
             self.table.update_rows(change.rows, s)
         else:
             self._set_anchor(None)
@@ -209,9 +218,10 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
 
     # ------------------------------------------------------------------ editor
 
-    def action_edit_segment(self) -> None:
+    async def action_edit_segment(self) -> None:
         if not self.session.corridor.segments:
             return
+        await self.editor.build()
         self.editor.display = True
         self.editor.load(self.session.corridor.segments[self.cursor])
         self.editor.query_one(Input).focus()

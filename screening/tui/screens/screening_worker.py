@@ -22,7 +22,11 @@ from screening.model import Corridor
 from screening.tui.session import screen_rows
 from screening.tui.widgets.progress_strip import ProgressStrip
 
-CHUNK = 250
+
+def chunk_size(n: int) -> int:
+    """About twenty progress steps, but no chunk under 50 segments: each engine call has a
+    fixed cost (the slip-circle search set-up), so many tiny chunks would slow the screen."""
+    return max(50, -(-n // 20))
 
 
 class ScreeningMixin:
@@ -49,7 +53,7 @@ class ScreeningMixin:
     def _screen_in_background(self, corridor: Corridor) -> None:
         worker = get_current_worker()
         started = time.perf_counter()
-        steps = engine.screen_iter(corridor, chunk_size=CHUNK)
+        steps = engine.screen_iter(corridor, chunk_size=chunk_size(len(corridor.segments)))
         try:
             while True:
                 done, total = next(steps)

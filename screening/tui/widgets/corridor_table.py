@@ -26,7 +26,13 @@ class CorridorTable(DataTable):
             self.add_column(heading, key=key, width=width)
 
     def _cells(self, session: Session, i: int) -> list[Text]:
-        cells = row_cells(session.corridor.segments[i], session.result, i, i in session.stale)
+        cells = row_cells(
+            session.corridor.segments[i],
+            session.result,
+            i,
+            session.pending(i),
+            session.provisional(i),
+        )
         if i in self.marked:
             cells[0] = Text(cells[0].plain, style=f"bold {MARK_STYLE}")
         return cells

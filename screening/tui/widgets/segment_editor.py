@@ -36,21 +36,36 @@ class SegmentEditor(VerticalScroll):
 
     def compose(self) -> ComposeResult:
         yield Static("", id="editor-title")
+
+    async def build(self) -> None:
+        """Mount the fields on first use: a quicker first frame for the corridor screen."""
+        if self.query(".field-row"):
+            return
+        widgets = []
         for spec in FIELDS:
-            with Horizontal(classes="field-row"):
-                yield Label(spec.label, classes="field-label")
-                yield Input(
-                    id=input_id(spec.name),
-                    placeholder=spec.hint,
-                    classes="field-input",
-                    select_on_focus=False,
+            widgets.append(
+                Horizontal(
+                    Label(spec.label, classes="field-label"),
+                    Input(
+                        id=input_id(spec.name),
+                        placeholder=spec.hint,
+                        classes="field-input",
+                        select_on_focus=False,
+                    ),
+                    Label(spec.unit, classes="field-unit"),
+                    classes="field-row",
                 )
-                yield Label(spec.unit, classes="field-unit")
-            yield Static("", id=input_id(spec.name) + "-why", classes="field-why")
-        yield Static(
-            "Enter / Esc: back to the table · every valid value is applied at once",
-            classes="editor-help",
+            )
+            why = Static("", id=input_id(spec.name) + "-why", classes="field-why")
+            why.display = False
+            widgets.append(why)
+        widgets.append(
+            Static(
+                "Enter / Esc: back to the table · every valid value is applied as you type",
+                classes="editor-help",
+            )
         )
+        await self.mount_all(widgets)
 
     def load(self, segment: Segment) -> None:
         """Fill the form from ``segment`` without treating it as an edit."""
