@@ -19,7 +19,7 @@ from screening.engine.result import CorridorResult
 from screening.errors import InputError
 from screening.location import Where
 from screening.model import Corridor, Segment
-from screening.tui.fields import parse_value, with_value
+from screening.tui.fields import BY_NAME, parse_value, with_value
 from screening.validate import check_corridor, check_segment
 
 UNDO_DEPTH = 40
@@ -219,7 +219,9 @@ class Session:
         self._coalesce = key
         self._set_segments(segments)
         self._rescreen((row,))
-        return Change(f"{new.id}: {field} = {raw.strip()}", (row,))
+        spec = BY_NAME.get(field)
+        what = f"{spec.label} = {raw.strip()} {spec.unit}".rstrip() if spec else f"{field} = {raw}"
+        return Change(f"{new.id}: {what}", (row,))
 
     def end_edit(self) -> None:
         """The editor closed: the next edit starts a new undo step."""

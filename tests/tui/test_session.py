@@ -38,3 +38,22 @@ def test_a_damaged_state_file_is_ignored(private_config: Path):
     private_config.mkdir(parents=True)
     (private_config / "interface.toml").write_text("recent = [1, 2\n", encoding="utf-8")
     assert load_state() == InterfaceState()
+
+
+def test_a_bad_file_gives_one_line_and_exit_2(tmp_path: Path):
+    """``wallscreen FILE`` on a broken file: the store's located message, no traceback."""
+    import subprocess
+    import sys
+
+    bad = tmp_path / "bad.toml"
+    bad.write_text('schema = "wallscreen/1"\n[corridor\n', encoding="utf-8")
+    run = subprocess.run(
+        [sys.executable, "-m", "screening", str(bad)],
+        capture_output=True,
+        text=True,
+        timeout=120,
+        cwd=Path(__file__).resolve().parents[2],
+    )
+    assert run.returncode == 2
+    assert run.stderr.startswith("wallscreen: ") and "bad.toml:2:" in run.stderr
+    assert "Traceback" not in run.stderr

@@ -5,6 +5,7 @@ from __future__ import annotations
 from collections.abc import Iterable
 
 from rich.text import Text
+from textual.binding import Binding
 from textual.coordinate import Coordinate
 from textual.widgets import DataTable
 
@@ -16,6 +17,8 @@ MARK_STYLE = "reverse"
 
 class CorridorTable(DataTable):
     """Segments in corridor order; the row index is the segment's index."""
+
+    BINDINGS = [Binding("enter", "select_cursor", "Detail", tooltip="Open the segment's detail")]
 
     def __init__(self, **kwargs: object) -> None:
         super().__init__(cursor_type="row", zebra_stripes=True, **kwargs)
