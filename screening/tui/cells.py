@@ -11,6 +11,10 @@ from rich.text import Text
 
 from screening.engine.result import CorridorResult
 from screening.model import Corridor, Segment
+from screening.units import Display
+
+SI = Display("si")
+"""Numbers as stored; ``Display("us")`` shows ft, psf, ... (files stay SI)."""
 
 VERDICT_MARK = {"clear": "○", "marginal": "◑", "refer": "●"}
 """Hollow, half, full: the fuller the mark, the more the segment needs a designer."""
@@ -32,6 +36,14 @@ COLUMNS: tuple[tuple[str, str, int], ...] = (
 )
 """(key, heading, width) of the corridor table, left to right."""
 
+UNIT_COLUMNS = {"chainage": "Chainage", "heights": "Height", "length": "L"}
+"""Columns whose heading names a length unit (shown in the display units)."""
+
+
+def column_heading(key: str, heading: str, display: Display = SI) -> str:
+    """``Chainage m`` or ``Chainage ft``: the heading in the display units."""
+    return f"{UNIT_COLUMNS[key]} {display.label('m')}" if key in UNIT_COLUMNS else heading
+
 
 def verdict_text(verdict: str) -> Text:
     """``● refer`` in the verdict's colour; unknown or pending shows an ellipsis."""
@@ -40,9 +52,11 @@ def verdict_text(verdict: str) -> Text:
     return Text(f"{VERDICT_MARK[verdict]} {verdict}", style=VERDICT_STYLE[verdict])
 
 
-def traffic_text(traffic: str | float) -> str:
+def traffic_text(traffic: str | float, display: Display = SI) -> str:
     if isinstance(traffic, int | float):
-        return f"{float(traffic):g} kPa"
+        if display.system == "si":
+            return f"{float(traffic):g} kPa"
+        return display.format(float(traffic), "kPa", 0)
     return str(traffic)
 
 
@@ -51,20 +65,25 @@ def preset_name(obj: object) -> str:
     return getattr(obj, "id", None) or "inline"
 
 
-def input_cells(seg: Segment) -> dict[str, Text]:
-    """The cells that depend on the inputs only."""
+def input_cells(seg: Segment, display: Display = SI) -> dict[str, Text]:
+    """The cells that depend on the inputs only (lengths in the display units)."""
+    m = display.value
     return {
         "id": Text(seg.id, style="bold"),
-        "chainage": Text(f"{seg.chainage_start_m:.1f}–{seg.chainage_end_m:.1f}"),
-        "heights": Text(f"{seg.height_start_m:.1f}→{seg.height_end_m:.1f}"),
+        "chainage": Text(f"{m(seg.chainage_start_m, 'm'):.1f}–{m(seg.chainage_end_m, 'm'):.1f}"),
+        "heights": Text(f"{m(seg.height_start_m, 'm'):.1f}→{m(seg.height_end_m, 'm'):.1f}"),
         "fill": Text(preset_name(seg.fill)),
         "reinforcement": Text(preset_name(seg.reinforcement)),
-        "traffic": Text(traffic_text(seg.traffic)),
+        "traffic": Text(traffic_text(seg.traffic, display)),
     }
 
 
 def result_cells(
-    result: CorridorResult | None, i: int, pending: bool = False, provisional: bool = False
+    result: CorridorResult | None,
+    i: int,
+    pending: bool = False,
+    provisional: bool = False,
+    display: Display = SI,
 ) -> dict[str, Text]:
     """The cells that come from the screen (ellipses while it is not yet known).
 
@@ -78,7 +97,7 @@ def result_cells(
     verdict = result.verdict[i]
     weak = cdr < 1.0
     cells = {
-        "length": Text(f"{result.length_m[i]:.1f}", justify="right"),
+        "length": Text(f"{display.value(float(result.length_m[i]), 'm'):.1f}", justify="right"),
         "ratio": Text(f"{result.length_ratio[i]:.2f}", justify="right"),
         "governing": Text(result.governing[i]),
         "cdr": Text(f"{cdr:.2f}", justify="right", style="bold red" if weak else ""),
@@ -97,12 +116,15 @@ def row_cells(
     i: int,
     pending: bool = False,
     quick: tuple[CorridorResult, int] | None = None,
+    display: Display = SI,
 ) -> list[Text]:
     """A table row; a pending row with a ``quick`` (built-in checks) result shows that."""
     if pending and quick is not None:
-        cells = input_cells(seg) | result_cells(quick[0], quick[1], provisional=True)
+        cells = input_cells(seg, display) | result_cells(
+            quick[0], quick[1], provisional=True, display=display
+        )
     else:
-        cells = input_cells(seg) | result_cells(result, i, pending)
+        cells = input_cells(seg, display) | result_cells(result, i, pending, display=display)
     return [cells[key] for key, _, _ in COLUMNS]
 
 
@@ -110,6 +132,7 @@ def summary_text(
     corridor: Corridor,
     result: CorridorResult | None,
     stale: set[int] | frozenset[int] = frozenset(),
+    display: Display = SI,
 ) -> Text:
     """Segments per verdict, total wall length and face area, factor set."""
     segs = corridor.segments
@@ -129,6 +152,9 @@ def summary_text(
             out.append(f"   {PENDING} {len(stale)} re-screening", style="dim")
     else:
         out.append(f"   {PENDING} screening", style="dim")
-    out.append(f"   wall {length:,.0f} m   face {area:,.0f} m²   ")
+    out.append(
+        f"   wall {display.value(length, 'm'):,.0f} {display.label('m')}   "
+        f"face {display.value(area, 'm2'):,.0f} {display.label('m2')}   "
+    )
     out.append(f"factor set {corridor.factor_set.id}", style="bold")
     return out

@@ -145,6 +145,42 @@ ACTIONS: tuple[KeyAction, ...] = (
     KeyAction(
         "recent_files", "r", "Recent", "Choose one of the recently opened corridor files.", "Files"
     ),
+    # -- corridor tools
+    KeyAction(
+        "quantities",
+        "m",
+        "Quantities",
+        "Quantities and rough cost of the corridor, segment by segment (placeholder rates).",
+        "Tools",
+    ),
+    KeyAction(
+        "sensitivity",
+        "v",
+        "Sensitivity",
+        "Which inputs move the selected segment's verdict or L most (opens its detail).",
+        "Tools",
+    ),
+    KeyAction(
+        "export_report",
+        "E",
+        "Export report",
+        "Write a report of the corridor (.html, .md or .csv) to a path you type.",
+        "Tools",
+    ),
+    KeyAction(
+        "compare_file",
+        "d",
+        "Compare",
+        "Compare the corridor with another corridor file: inputs and outcomes that moved.",
+        "Tools",
+    ),
+    KeyAction(
+        "toggle_units",
+        "t",
+        "Units",
+        "Show lengths, pressures and weights in SI or US customary units (files stay SI).",
+        "Tools",
+    ),
     # -- help
     KeyAction(
         "presets",
@@ -187,3 +223,14 @@ def shown_key(keys: str) -> str:
 def all_keys(keys: str) -> str:
     """Every key of an action, readable, joined by ' / '."""
     return " / ".join(shown_key(k) for k in keys.split(","))
+
+
+def binding_for(action: str, *, show: bool | None = None):
+    """The Textual binding of one action of the table, for a screen that offers it too
+    (the detail view's sensitivity and units keys)."""
+    from textual.binding import Binding
+
+    a = next(a for a in ACTIONS if a.action == action)
+    return Binding(
+        a.keys, a.action, a.title, show=a.footer if show is None else show, tooltip=a.help
+    )

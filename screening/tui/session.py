@@ -20,6 +20,7 @@ from screening.errors import InputError
 from screening.location import Where
 from screening.model import Corridor, Segment
 from screening.tui.fields import BY_NAME, parse_value, with_value
+from screening.units import Display
 from screening.validate import check_corridor, check_segment
 
 UNDO_DEPTH = 40
@@ -97,6 +98,8 @@ class Session:
         self.path = path
         """File it was read from and saves to; None for the unsaved demo copy."""
         self.presets = presets
+        self.display = Display("si")
+        """Units things are shown in (``us``: ft, psf, ...); the file and engine stay SI."""
         self._undo: list[_State] = []
         self._redo: list[_State] = []
         self._saved: Corridor | None = corridor

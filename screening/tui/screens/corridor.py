@@ -60,8 +60,9 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
             yield SegmentEditor(id="editor")
         yield SummaryBar(id="summary")
         yield LongSection(id="long-section")
-        yield ProgressStrip(id="progress")
-        yield Static("", id="status")
+        with Horizontal(id="status-row"):  # one line whatever shows: the table never jumps
+            yield Static("", id="status")
+            yield ProgressStrip(id="progress")
         yield CautionLine(id="caution")
         yield Footer()
 

@@ -133,6 +133,6 @@ class OperationsMixin:
             return
         self.session.result = None
         self.session.stale = set()
-        self.table.update_rows(range(len(self.session.corridor.segments)), self.session)
+        self.table.update_all_gradually(self.session)
         self.redraw_around()
         self.start_screen()

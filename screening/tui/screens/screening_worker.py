@@ -78,7 +78,7 @@ class ScreeningMixin:
             if self.session.result is None:
                 self.start_screen()  # the segment list changed meanwhile: screen it
             return
-        self.table.update_rows(range(len(result)), self.session)
+        self.table.update_all_gradually(self.session)
         self.redraw_around()
         if self.last_screen_s is not None:
             self.say(f"screened {len(result):,} segments in {self.last_screen_s:.1f} s")

@@ -6,6 +6,9 @@ from rich.table import Table
 from rich.text import Text
 
 from screening.engine.result import SegmentResult
+from screening.units import Display
+
+SI = Display("si")
 
 
 def _num(value: float) -> str:
@@ -13,8 +16,9 @@ def _num(value: float) -> str:
     return f"{value:.2f}" if abs(value) < 10 else f"{value:.1f}"
 
 
-def checks_table(res: SegmentResult) -> Table:
-    """A Rich table of every check (governing case of each), weakest marked."""
+def checks_table(res: SegmentResult, display: Display = SI) -> Table:
+    """A Rich table of every check (governing case of each), weakest marked; demand and
+    capacity in the display units (CDRs are ratios: the same in any units)."""
     table = Table(expand=True, box=None, header_style="bold", pad_edge=False)
     for heading, justify in (
         ("Check", "left"),
@@ -33,19 +37,28 @@ def checks_table(res: SegmentResult) -> Table:
         table.add_row(
             Text(("▸ " if governs else "  ") + name, style=style),
             Text(check.case),
-            _num(check.demand),
-            _num(check.capacity),
-            Text(check.unit, style="dim"),
+            _num(display.value(check.demand, check.unit)),
+            _num(display.value(check.capacity, check.unit)),
+            Text(display.label(check.unit), style="dim"),
             Text(f"{check.cdr:.2f}", style=style),
             Text(status, style=style),
         )
     return table
 
 
-def layers_table(res: SegmentResult) -> Table:
+def layers_table(res: SegmentResult, display: Display = SI) -> Table:
     """Layer by layer: depth, T_max, pullout and rupture capacity, grade chosen."""
     table = Table(box=None, header_style="bold", pad_edge=False)
-    for heading in ("#", "Depth m", "T_max kN/m", "Pullout kN/m", "Rupture kN/m", "Grade", "La m"):
+    m, f = display.label("m"), display.label("kN/m")
+    for heading in (
+        "#",
+        f"Depth {m}",
+        f"T_max {f}",
+        f"Pullout {f}",
+        f"Rupture {f}",
+        "Grade",
+        f"La {m}",
+    ):
         table.add_column(heading, justify="left" if heading == "Grade" else "right", no_wrap=True)
     for k, layer in enumerate(res.layers, start=1):
         short = layer.pullout_capacity_kn_m < layer.tension_kn_m or (
@@ -53,11 +66,16 @@ def layers_table(res: SegmentResult) -> Table:
         )
         table.add_row(
             str(k),
-            f"{layer.depth_m:.2f}",
-            f"{layer.tension_kn_m:.1f}",
-            f"{layer.pullout_capacity_kn_m:.1f}",
-            f"{layer.rupture_capacity_kn_m:.1f}",
+            f"{display.value(layer.depth_m, 'm'):.2f}",
+            _force(display, layer.tension_kn_m),
+            _force(display, layer.pullout_capacity_kn_m),
+            _force(display, layer.rupture_capacity_kn_m),
             Text(layer.grade or "none passes", style="bold red" if short else ""),
-            f"{layer.active_length_m:.2f}",
+            f"{display.value(layer.active_length_m, 'm'):.2f}",
         )
     return table
+
+
+def _force(display: Display, kn_m: float) -> str:
+    """kN/m to one decimal; kip/ft (about 15 times smaller) to two."""
+    return f"{display.value(kn_m, 'kN/m'):.{1 if display.system == 'si' else 2}f}"

@@ -11,10 +11,10 @@ class ProgressStrip(Horizontal):
     """``Screening 2,500 / 5,000 segments [#####     ] Esc cancels``."""
 
     DEFAULT_CSS = """
-    ProgressStrip { height: 1; display: none; }
+    ProgressStrip { height: 1; width: auto; display: none; }
     ProgressStrip.running { display: block; }
     ProgressStrip Label { width: auto; padding: 0 1; }
-    ProgressStrip ProgressBar { width: 50; }
+    ProgressStrip ProgressBar { width: 40; }
     """
 
     def compose(self) -> ComposeResult:
