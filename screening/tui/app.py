@@ -77,6 +77,8 @@ class WallscreenApp(App[int]):
     async def _palette_run(self, name: str) -> None:
         if self.corridor_screen is not None:
             if self.screen is not self.corridor_screen:
+                if name in getattr(self.screen, "PALETTE_ACTIONS", ()):
+                    await self.screen.run_action(name)  # e.g. sensitivity in the detail view
                 return
             await self.corridor_screen.run_action(name)
 

@@ -131,7 +131,7 @@ class CompareScreen(Screen[None]):
 
     def __init__(self, other: str, this: str, diff: CorridorDiff, display: Display) -> None:
         super().__init__()
-        self.other, self.this, self.diff, self.display = other, this, diff, display
+        self.other, self.this, self.diff, self.units = other, this, diff, display
 
     def compose(self) -> ComposeResult:
         head = Text()
@@ -139,7 +139,7 @@ class CompareScreen(Screen[None]):
         head.append(f"  {self.other}  →  {self.this}", style="bold")
         yield Static(head, id="compare-heading")
         with VerticalScroll(id="compare-body"):
-            yield Static(diff_view(self.diff, self.display), id="compare-view")
+            yield Static(diff_view(self.diff, self.units), id="compare-view")
         yield CautionLine(id="caution")
         yield Footer()
 

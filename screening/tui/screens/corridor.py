@@ -21,6 +21,7 @@ from screening.tui.screens.detail import DetailScreen
 from screening.tui.screens.files import FilesMixin
 from screening.tui.screens.operations import OperationsMixin
 from screening.tui.screens.screening_worker import ScreeningMixin
+from screening.tui.screens.tools import ToolsMixin
 from screening.tui.session import Change, Session
 from screening.tui.widgets.corridor_table import CorridorTable
 from screening.tui.widgets.long_section import LongSection
@@ -40,7 +41,7 @@ def _bindings() -> list[Binding]:
     ]
 
 
-class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
+class CorridorScreen(ToolsMixin, OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
     """Where the user spends the day."""
 
     BINDINGS = _bindings()
@@ -84,6 +85,7 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
 
     def reset(self, session: Session) -> None:
         """Show another corridor (after open), then screen it."""
+        session.display = self.session.display  # the units chosen stay for the next file
         self.session = session
         self.anchor = None
         self.table.marked = set()
@@ -100,7 +102,7 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
         """Title, summary and long section (cheap: no table rows)."""
         s = self.session
         self.query_one(TitleBar).show(s.corridor.name, s.path, s.dirty)
-        self.query_one(SummaryBar).show(s.corridor, s.result, s.stale)
+        self.query_one(SummaryBar).show(s.corridor, s.result, s.stale, s.display)
         self.query_one(LongSection).show(s.corridor, s.result, self.cursor, s.stale)
 
     def say(self, message: str, style: str = "") -> None:
@@ -196,8 +198,10 @@ class CorridorScreen(OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
         if self._lookup(self.cursor) is None:
             self.say("this segment is being screened: the detail opens once it is done", "yellow")
             return
+        units = self.session.display
         self.app.push_screen(
-            DetailScreen(self.cursor, self._lookup), lambda _: self.redraw_around()
+            DetailScreen(self.cursor, self._lookup, self.session),
+            lambda _: self.show_units() if self.session.display != units else self.redraw_around(),
         )
 
     # ------------------------------------------------------------------ help

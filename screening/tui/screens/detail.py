@@ -68,7 +68,7 @@ class DetailScreen(Screen[None]):
     DEFAULT_CSS = """
     #detail-right { width: 1fr; }
     #detail-right #detail-sketch { width: 1fr; height: 1fr; min-height: 12; }
-    #detail-tools { height: auto; max-height: 60%; border: round $panel-lighten-2; padding: 0 1; }
+    #detail-tools { height: auto; max-height: 65%; border: round $panel-lighten-2; padding: 0 1; }
     #detail-sensitivity { margin-top: 1; }
     """
 

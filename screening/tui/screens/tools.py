@@ -10,6 +10,7 @@ from __future__ import annotations
 import time
 from pathlib import Path
 
+from rich.text import Text
 from textual import work
 from textual.worker import get_current_worker
 
@@ -61,7 +62,7 @@ class ToolsMixin:
         """Redraw the table headings, every row and the summary in the session's units."""
         table = self.table
         for key, heading, _ in COLUMNS:
-            table.columns[key].label = column_heading(key, heading, self.session.display)
+            table.columns[key].label = Text(column_heading(key, heading, self.session.display))
         table.update_rows(range(len(self.session.corridor.segments)), self.session)
         table.refresh()
         self.redraw_around()

@@ -45,6 +45,7 @@ class CorridorTable(DataTable):
             i,
             session.pending(i),
             session.provisional(i),
+            session.display,
         )
         if i in self.marked:
             cells[0] = Text(cells[0].plain, style=f"bold {MARK_STYLE}")

@@ -18,7 +18,7 @@ from screening.engine.result import CorridorResult
 from screening.errors import WallscreenError
 from screening.model import Corridor
 from screening.sensitivity import Sensitivity
-from screening.tui.cells import verdict_text
+from screening.tui.cells import VERDICT_MARK, VERDICT_STYLE
 from screening.tui.corridor_tools import cached_sensitivity, run_sensitivity, sensitivity_key
 from screening.units import Display
 
@@ -32,29 +32,35 @@ def _value(value: float, unit: str, display: Display) -> str:
     return f"{display.value(value, unit):.1f}"
 
 
+def _mark(verdict: str) -> Text:
+    return Text(VERDICT_MARK.get(verdict, "?"), style=VERDICT_STYLE.get(verdict, ""))
+
+
 def sensitivity_table(ranking: list[Sensitivity], base_verdict: str, display: Display) -> Table:
-    """Inputs ranked: verdict flips first, then how far L moves, then the smallest CDR."""
+    """Inputs ranked: verdict flips first, then how far L moves, then the smallest CDR.
+    Verdicts at the two ends show as their marks (○ clear, ◑ marginal, ● refer)."""
     table = Table(box=None, header_style="bold", pad_edge=False, expand=True)
-    table.add_column("#", justify="right")
-    table.add_column("Input", no_wrap=True)
-    table.add_column("low – base – high", no_wrap=True)
-    table.add_column("Verdict low / high", no_wrap=True)
-    table.add_column(f"L {display.label('m')} low / high", justify="right", no_wrap=True)
-    table.add_column("ΔCDR", justify="right")
+    table.add_column("#", justify="right", width=2)
+    table.add_column("Input", no_wrap=True, min_width=20)
+    table.add_column("Range low–high", no_wrap=True)
+    table.add_column("Verdict", no_wrap=True)
+    table.add_column(f"L {display.label('m')}", justify="right", no_wrap=True)
+    table.add_column("ΔCDR", justify="right", no_wrap=True)
+    m = display.value
     for k, s in enumerate(ranking[:SHOWN], start=1):
         unit = "" if s.unit == "deg" else f" {display.label(s.unit)}"
         verdicts = Text()
-        verdicts.append_text(verdict_text(s.verdict_low))
-        verdicts.append(" / ")
-        verdicts.append_text(verdict_text(s.verdict_high))
-        m = display.value
+        verdicts.append_text(_mark(s.verdict_low))
+        verdicts.append(" ")
+        verdicts.append_text(_mark(s.verdict_high))
+        if s.flips:
+            verdicts.append(" flips", style="bold red")
         table.add_row(
             str(k),
-            Text(s.label, style="bold red" if s.flips else ""),
-            f"{_value(s.low, s.unit, display)} – {_value(s.base, s.unit, display)} – "
-            f"{_value(s.high, s.unit, display)}{unit}",
+            Text(s.label, style="bold" if s.flips else ""),
+            f"{_value(s.low, s.unit, display)}–{_value(s.high, s.unit, display)}{unit}",
             verdicts,
-            f"{m(s.length_low_m, 'm'):.1f} / {m(s.length_high_m, 'm'):.1f}",
+            f"{m(s.length_low_m, 'm'):.1f}–{m(s.length_high_m, 'm'):.1f}",
             f"{s.cdr_shift:.3f}",
         )
     return table
@@ -69,7 +75,9 @@ def ranking_text(ranking: list[Sensitivity], base_verdict: str, display: Display
     else:
         head.append(f"  no single input flips the verdict ({base_verdict}) within its range")
     note = Text(
-        "each input alone at both ends of its range (presets/sensitivity.toml)", style="dim"
+        "each input alone at the low and high end of its range (presets/sensitivity.toml); "
+        "verdict and L at the low / high end",
+        style="dim",
     )
     return Group(head, sensitivity_table(ranking, base_verdict, display), note)
 

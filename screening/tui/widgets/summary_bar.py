@@ -6,7 +6,8 @@ from textual.widgets import Static
 
 from screening.engine.result import CorridorResult
 from screening.model import Corridor
-from screening.tui.cells import summary_text
+from screening.tui.cells import SI, summary_text
+from screening.units import Display
 
 
 class SummaryBar(Static):
@@ -17,5 +18,6 @@ class SummaryBar(Static):
         corridor: Corridor,
         result: CorridorResult | None,
         stale: set[int] | frozenset[int] = frozenset(),
+        display: Display = SI,
     ) -> None:
-        self.update(summary_text(corridor, result, stale))
+        self.update(summary_text(corridor, result, stale, display))
