@@ -64,7 +64,7 @@ class FilesMixin:
     def _write(self, path: Path | None = None, then: Callable[[], None] | None = None) -> None:
         """Save now, or as soon as the screen in progress lands, so the file never
         carries results that do not match its inputs; then run ``then``."""
-        if self.busy:
+        if self.results_pending:
             if self.session.result is None and not self.screening:
                 self.start_screen()  # a cancelled screen: results are needed to save
             self._pending_save = (path, then)
@@ -86,7 +86,7 @@ class FilesMixin:
     def flush_pending_save(self) -> None:
         """Called whenever a screen lands: do a save that was waiting for it."""
         pending = getattr(self, "_pending_save", None)
-        if pending is not None and not self.busy:
+        if pending is not None and not self.results_pending:
             self._write(*pending)
 
     def save_then(self, then: Callable[[], None] | None = None) -> None:

@@ -134,11 +134,16 @@ class ScreeningMixin:
         self.app.notify(str(err), title=err.title, severity="error", timeout=10)
 
     @property
-    def busy(self) -> bool:
-        """Anything still being screened (tests and the benchmark wait on this)."""
+    def results_pending(self) -> bool:
+        """Some row has no up-to-date result yet (a save waits for them)."""
         return (
             self.screening
             or self.rows_running
             or bool(self.session.stale)
             or (self.session.result is None)
         )
+
+    @property
+    def busy(self) -> bool:
+        """Anything still being screened or drawn (tests and the benchmark wait on this)."""
+        return self.results_pending or self.table.updating

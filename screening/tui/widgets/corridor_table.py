@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Iterable
+from functools import partial
 
 from rich.text import Text
 from textual.binding import Binding
@@ -13,7 +14,7 @@ from screening.tui.cells import COLUMNS, row_cells
 from screening.tui.session import Session
 
 MARK_STYLE = "reverse"
-BATCH = 250
+BATCH = 100
 """Rows redrawn per event-loop turn in a gradual update (about 50 ms)."""
 
 
@@ -26,6 +27,8 @@ class CorridorTable(DataTable):
         super().__init__(cursor_type="row", zebra_stripes=True, **kwargs)
         self.marked: set[int] = set()
         self._generation = 0
+        self.updating = False
+        """A gradual redraw of every row is under way."""
 
     def on_mount(self) -> None:
         for key, heading, width in COLUMNS:
@@ -54,6 +57,7 @@ class CorridorTable(DataTable):
     def load(self, session: Session, cursor: int = 0) -> None:
         """Rebuild every row (after segments were added, removed or reordered)."""
         self._generation += 1  # any gradual update of the old rows stops
+        self.updating = False
         self.clear(columns=False)
         n = len(session.corridor.segments)
         for i in range(n):
@@ -81,8 +85,9 @@ class CorridorTable(DataTable):
             if generation != self._generation or n != len(session.corridor.segments):
                 return
             self.update_rows(order[start : start + BATCH], session)
-            if start + BATCH < len(order):
-                self.call_later(batch, start + BATCH)
+            self.updating = start + BATCH < len(order)
+            if self.updating:
+                self.set_timer(0.005, partial(batch, start + BATCH))  # let other events run
 
         batch(0)
 
