@@ -49,8 +49,7 @@ class ExportScreen(ModalScreen[ExportChoice | None]):
             yield Input(value=self.suggested, id="export-path")
             yield Static("", id="export-why", classes="field-why")
             yield Checkbox(
-                f"Sensitivity of the {self.flagged} referred and marginal segments "
-                "(about a second each)",
+                f"Rank the inputs of the {self.flagged} referred and marginal segments (slower)",
                 value=True,
                 id="export-sensitivity",
             )
@@ -64,7 +63,7 @@ class ExportScreen(ModalScreen[ExportChoice | None]):
         try:
             check_report_path(raw)
         except WallscreenError as err:
-            return str(err)
+            return getattr(err, "message", str(err))
         return None
 
     def _show(self, problem: str | None) -> None:
