@@ -87,8 +87,8 @@ def result_cells(
 ) -> dict[str, Text]:
     """The cells that come from the screen (ellipses while it is not yet known).
 
-    ``provisional``: the built-in checks only, while the slip-circle checks still run;
-    the verdict then carries a trailing ellipsis and the numbers are in italics.
+    ``provisional``: the built-in checks only, while the slip-circle checks still run:
+    their numbers in italics, and no verdict yet ("… checking").
     """
     if result is None or pending:
         blank = Text(PENDING, style="dim")
@@ -106,7 +106,8 @@ def result_cells(
     if provisional:
         for cell in cells.values():
             cell.stylize("italic")
-        cells["verdict"].append(PENDING, style="dim")
+        # no verdict until every check is in: the slip circles can still refer the segment
+        cells["verdict"] = Text(f"{PENDING} checking", style="dim italic")
     return cells
 
 
