@@ -4,6 +4,7 @@ is drawn. Each screen the interface shows is compared with an independent full r
 
 from __future__ import annotations
 
+import dataclasses
 import io
 from pathlib import Path
 
@@ -397,3 +398,22 @@ async def test_detail_view_shows_checks_reasons_layers_and_sketch(corridor_file:
         assert detail.row == 2
         await pilot.press("escape")
         assert app.screen is app.corridor_screen
+
+
+async def test_an_edit_shows_the_built_in_checks_at_once_then_the_full_screen(
+    corridor_file: Path,
+):
+    """Before the slip circles are in, the row carries the built-in checks' numbers (from
+    ``engine.screen(..., extra_checks=())``) and no verdict; then the full screen."""
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
+        screen = app.corridor_screen
+        change = screen.session.edit_field(4, "height_end_m", "7.25")
+        screen.apply(change)  # what the editor does on a valid value; no await: no worker yet
+        corridor = screen.session.corridor
+        one = dataclasses.replace(corridor, segments=(corridor.segments[4],))
+        core = engine.screen(one, extra_checks=())
+        assert drawn(app, 4, "length") == f"{core.length_m[0]:.1f}"
+        assert drawn(app, 4, "verdict") == "… checking"
+        await rows_match_fresh_screen(pilot, app)
