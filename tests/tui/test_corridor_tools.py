@@ -182,3 +182,20 @@ async def test_detail_shows_quantities_and_ranks_inputs_on_demand(corridor_file:
         assert ranking[0].label in lines[0] and ranking[1].label in lines[1]
         flips = [s.label for s in ranking if s.flips]
         assert ("flips within the range of" in shown) == bool(flips)
+
+
+async def test_compare_with_a_broken_file_says_why_and_stays(corridor_file: Path, tmp_path: Path):
+    broken = tmp_path / "broken.toml"
+    broken.write_text('name = "x"\n[[segment]\nid = 1\n', encoding="utf-8")
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE, notifications=True) as pilot:
+        await settle(pilot, app)
+        await pilot.press("d")
+        await pilot.pause()
+        app.screen.query_one(Input).value = str(broken)
+        await pilot.press("enter")
+        await finish_workers(pilot, app)
+        assert app.screen is app.corridor_screen
+        messages = [n.message for n in app._notifications]
+        assert any("broken.toml:2:" in m for m in messages), messages  # file:line:column
+        assert "could not compare" in static_text(app.corridor_screen, "#status")

@@ -63,8 +63,8 @@ class ToolsMixin:
         table = self.table
         for key, heading, _ in COLUMNS:
             table.columns[key].label = Text(column_heading(key, heading, self.session.display))
-        table.update_rows(range(len(self.session.corridor.segments)), self.session)
         table.refresh()
+        table.update_all_gradually(self.session)  # visible rows first: no freeze at 5,000
         self.redraw_around()
 
     # ------------------------------------------------------------------ quantities
