@@ -12,7 +12,6 @@ from rich.console import Console
 
 from screening import engine, store
 from screening.tui.cells import COLUMNS, VERDICT_MARK
-from screening.tui.screens.choose import ChooseScreen
 from screening.tui.screens.detail import DetailScreen
 from screening.tui.screens.prompt import PromptScreen
 from screening.tui.screens.unsaved import UnsavedScreen
@@ -146,105 +145,6 @@ async def test_chainage_end_before_start_is_refused(corridor_file: Path):
         assert screen.session.corridor.segments[0] is seg
 
 
-async def test_bulk_edit_of_a_marked_range(corridor_file: Path):
-    app = make_app(corridor_file)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        screen = app.corridor_screen
-        before = screen.session.corridor.segments
-        await pilot.press("down", "space", "down", "down", "down", "b")
-        await pilot.pause()
-        chooser = app.screen
-        assert isinstance(chooser, ChooseScreen)
-        options = chooser.query_one("#choices")
-        options.highlighted = [v for v, _ in chooser.options].index("traffic")
-        await pilot.press("enter")
-        await pilot.pause()
-        assert isinstance(app.screen, PromptScreen)
-        await pilot.press("home", "ctrl+k", *"12.5", "enter")
-        await pilot.pause()
-        after = screen.session.corridor.segments
-        assert [s.traffic for s in after[1:5]] == [12.5] * 4
-        assert after[0] is before[0] and after[5:] == before[5:]
-        await rows_match_fresh_screen(pilot, app)
-        assert screen.anchor is None  # the range is cleared once applied
-
-
-async def test_bulk_edit_refuses_an_unknown_preset(corridor_file: Path):
-    app = make_app(corridor_file)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        screen = app.corridor_screen
-        corridor = screen.session.corridor
-        await pilot.press("space", "down", "b")
-        await pilot.pause()
-        chooser = app.screen
-        chooser.query_one("#choices").highlighted = [v for v, _ in chooser.options].index("fill")
-        await pilot.press("enter")
-        await pilot.pause()
-        await pilot.press("home", "ctrl+k", *"gravelly", "enter")
-        await pilot.pause()
-        prompt = app.screen
-        assert isinstance(prompt, PromptScreen)  # Enter refused: still asking
-        assert "unknown fill preset" in str(prompt.query_one("#prompt-why").content)
-        await pilot.press("escape")
-        assert screen.session.corridor is corridor
-
-
-async def test_split_at_a_chainage(corridor_file: Path):
-    app = make_app(corridor_file)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        screen = app.corridor_screen
-        n = len(screen.session.corridor.segments)
-        seg = screen.session.corridor.segments[1]
-        at = seg.chainage_start_m + 0.25 * seg.length_along_m
-        await pilot.press("down", "s")
-        await pilot.pause()
-        await pilot.press("home", "ctrl+k", *f"{seg.chainage_end_m + 1:g}", "enter")
-        await pilot.pause()
-        assert isinstance(app.screen, PromptScreen)  # outside the segment: refused
-        await pilot.press("home", "ctrl+k", *f"{at:g}", "enter")
-        await pilot.pause()
-        segs = screen.session.corridor.segments
-        assert len(segs) == n + 1
-        first, second = segs[1], segs[2]
-        assert (first.id, first.chainage_start_m, first.chainage_end_m) == (
-            seg.id,
-            seg.chainage_start_m,
-            at,
-        )
-        assert (second.chainage_start_m, second.chainage_end_m) == (at, seg.chainage_end_m)
-        # linear interpolation of the exposed height along the segment (common practice)
-        expected = seg.height_start_m + 0.25 * (seg.height_end_m - seg.height_start_m)
-        assert abs(first.height_end_m - expected) < 1e-3
-        assert second.height_start_m == first.height_end_m
-        await rows_match_fresh_screen(pilot, app)
-
-
-async def test_delete_then_undo_and_redo(corridor_file: Path):
-    app = make_app(corridor_file)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        screen = app.corridor_screen
-        original = screen.session.corridor
-        gone = original.segments[2].id
-        await pilot.press("down", "down", "x")
-        await pilot.pause()
-        ids = [s.id for s in screen.session.corridor.segments]
-        assert gone not in ids and len(ids) == len(original.segments) - 1
-        await rows_match_fresh_screen(pilot, app)
-        await pilot.press("u")
-        await pilot.pause()
-        assert screen.session.corridor is original
-        await rows_match_fresh_screen(pilot, app)
-        assert not screen.session.dirty  # back to what the file holds
-        await pilot.press("ctrl+y")
-        await pilot.pause()
-        assert gone not in [s.id for s in screen.session.corridor.segments]
-        await rows_match_fresh_screen(pilot, app)
-
-
 async def test_typing_a_value_is_one_undo_step(corridor_file: Path):
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
@@ -259,51 +159,6 @@ async def test_typing_a_value_is_one_undo_step(corridor_file: Path):
         await pilot.press("u")
         await pilot.pause()
         assert screen.session.corridor is original
-
-
-async def test_factor_set_switch_updates_every_verdict(corridor_file: Path):
-    app = make_app(corridor_file)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        screen = app.corridor_screen
-        await pilot.press("f")
-        await pilot.pause()
-        chooser = app.screen
-        assert isinstance(chooser, ChooseScreen)
-        chooser.query_one("#choices").highlighted = [v for v, _ in chooser.options].index("asd")
-        await pilot.press("enter")
-        await pilot.pause()
-        assert screen.session.corridor.factor_set.id == "asd"
-        assert "factor set asd" in summary(app)
-        await rows_match_fresh_screen(pilot, app)
-        await pilot.press("u")
-        await pilot.pause()
-        assert "factor set aashto-lrfd" in summary(app)
-        await rows_match_fresh_screen(pilot, app)
-
-
-async def test_add_and_duplicate_and_order(corridor_file: Path):
-    app = make_app(corridor_file)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        screen = app.corridor_screen
-        n = len(screen.session.corridor.segments)
-        last = screen.session.corridor.segments[-1]
-        await pilot.press("ctrl+end", "a")
-        await pilot.pause()
-        segs = screen.session.corridor.segments
-        assert len(segs) == n + 1 and segs[-1].chainage_start_m == last.chainage_end_m
-        assert segs[-1].id not in {s.id for s in segs[:-1]}
-        await pilot.press("ctrl+home", "c")
-        await pilot.pause()
-        segs = screen.session.corridor.segments
-        assert len(segs) == n + 2
-        assert segs[1].height_start_m == segs[0].height_start_m and segs[1].id != segs[0].id
-        await pilot.press("o")
-        await pilot.pause()
-        starts = [s.chainage_start_m for s in screen.session.corridor.segments]
-        assert starts == sorted(starts)
-        await rows_match_fresh_screen(pilot, app)
 
 
 async def test_unsaved_changes_guard_on_quit(corridor_file: Path):
