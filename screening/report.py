@@ -113,6 +113,8 @@ def build_report_data(
             f"Cross-sections drawn for {cross_section_limit} of {len(order)} referred or marginal "
             "segments (referred first, then the lowest CDR)."
         )
+    if not sensitivity:
+        notes.append("Sensitivity of the inputs was not computed for this report.")
     if sensitivity and flagged:
         chosen = sorted(order[:sensitivity_limit])
         if len(order) > sensitivity_limit:
@@ -194,6 +196,10 @@ def _write_atomic(path: Path, text: str) -> None:
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
             fh.write(text)
+        # mkstemp makes 0600; a report is for sharing: the usual mode for new files.
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(tmp, 0o666 & ~umask)
         os.replace(tmp, path)
     except OSError as err:
         Path(tmp).unlink(missing_ok=True)

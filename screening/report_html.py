@@ -138,6 +138,8 @@ def render_html(data: ReportData) -> str:
     add(
         "".join(table_html(t) for t in st)
         if st
+        else "<p>No input ranking in this report (see the notes above).</p>"
+        if data.notes and any("Sensitivity" in n for n in data.notes)
         else "<p>No referred or marginal segment to examine.</p>"
     )
 

@@ -53,7 +53,11 @@ def render_markdown(data: ReportData) -> str:
     if mc is not None:
         out.append(table_md(mc))
     out += [table_md(t) for t in tables.sensitivity(data)] or [
-        "No referred or marginal segment to examine.\n"
+        (
+            "No input ranking in this report (see the notes above).\n"
+            if any("Sensitivity" in n for n in data.notes)
+            else "No referred or marginal segment to examine.\n"
+        )
     ]
     out += ["## Assumptions", ""]
     out += [table_md(t) for t in assumptions(data)]
