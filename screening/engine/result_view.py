@@ -23,7 +23,7 @@ def segment_view(result: CorridorResult, i: int) -> SegmentResult:
             demand=float(c.demand[i]),
             capacity=float(c.capacity[i]),
             cdr=float(c.cdr[i]),
-            unit=UNITS.get(name, ""),
+            unit=_unit(name, c.detail[i]),
             case=c.case[i],
             detail=c.detail[i],
         )
@@ -67,3 +67,13 @@ def segment_view(result: CorridorResult, i: int) -> SegmentResult:
         traffic_kpa=float(result.traffic_kpa[i]),
         extras=extras,
     )
+
+
+def _unit(name: str, detail: str) -> str:
+    """The unit of a check's demand and capacity. The seismic check reports whichever of its
+    sub-checks governs, and its detail names that sub-check's unit in brackets."""
+    if name == "seismic" and "(" in detail and ")" in detail:
+        inner = detail[detail.index("(") + 1 : detail.index(")")]
+        if inner in UNITS.values():
+            return inner
+    return UNITS.get(name, "")
