@@ -53,6 +53,9 @@ class InputError(WallscreenError):
             loc = f"[{self.table}]" + (f" {self.field}" if self.field else "")
         else:
             loc = self.field or ""
+        if self.file is None and self.line is None:
+            # Typed in the terminal interface, not read from a file: no place to name.
+            return f"{loc}: {self.message}" if loc else self.message
         return f"{where}: {loc}: {self.message}" if loc else f"{where}: {self.message}"
 
 
