@@ -179,7 +179,14 @@ class LoadCase:
     """Partial factor dividing cu."""
     unit_weight: float = 1.0
     """Partial factor dividing (>1 makes soil lighter) or multiplying unit weight: kept 1.0."""
-    checks: tuple[str, ...] = ("sliding", "eccentricity", "bearing", "pullout", "rupture", "compound")
+    checks: tuple[str, ...] = (
+        "sliding",
+        "eccentricity",
+        "bearing",
+        "pullout",
+        "rupture",
+        "compound",
+    )
     """Checks this case applies to."""
 
 

@@ -12,8 +12,13 @@ from pathlib import Path
 import pytest
 
 ROOT = Path(__file__).resolve().parent.parent
-PRESET_FILES = ("fills.toml", "reinforcement.toml", "factor-sets.toml", "rules.toml",
-                "demo-corridor.toml")
+PRESET_FILES = (
+    "fills.toml",
+    "reinforcement.toml",
+    "factor-sets.toml",
+    "rules.toml",
+    "demo-corridor.toml",
+)
 
 
 def test_presets_found_from_checkout() -> None:
@@ -29,7 +34,8 @@ def wheel(tmp_path_factory: pytest.TempPathFactory) -> Path:
     out = tmp_path_factory.mktemp("wheel")
     proc = subprocess.run(
         [sys.executable, "-m", "pip", "wheel", "--no-deps", "-q", "-w", str(out), str(ROOT)],
-        capture_output=True, text=True,
+        capture_output=True,
+        text=True,
     )
     if proc.returncode != 0:
         pytest.skip(f"could not build a wheel here: {proc.stderr[-300:]}")
@@ -52,6 +58,7 @@ def test_presets_found_from_wheel_contents(wheel: Path, tmp_path: Path) -> None:
         "r = presets_root(); p = load_presets();"
         "print(str(r).startswith(sys.argv[1]), len(p.fills) >= 5)"
     )
-    out = subprocess.run([sys.executable, "-c", code, str(tmp_path)], capture_output=True,
-                         text=True, cwd=tmp_path)
+    out = subprocess.run(
+        [sys.executable, "-c", code, str(tmp_path)], capture_output=True, text=True, cwd=tmp_path
+    )
     assert out.stdout.split() == ["True", "True"], out.stderr

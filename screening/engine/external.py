@@ -148,7 +148,9 @@ def bearing(
     cw = water_factor(ctx.a.found_water_depth_m[:, None], width)
     gamma_f = ctx.a.found_unit_weight_kn_m3[:, None]
     # Toe slope in front (engine/slip_wall.py, Vesic 1975 ground-inclination factors).
-    g_c, g_gamma, g_cu = toe_slope_bearing_factors(ctx.a.toe_slope_deg[:, None], ctx.found_friction_deg)
+    g_c, g_gamma, g_cu = toe_slope_bearing_factors(
+        ctx.a.toe_slope_deg[:, None], ctx.found_friction_deg
+    )
     drained = ctx.found_cohesion_kpa * nc * g_c + 0.5 * gamma_f * width * ngamma * cw * g_gamma
     undrained = UNDRAINED_NC * ctx.found_undrained_kpa * g_cu
     q_n = np.where(np.isnan(undrained), drained, np.fmin(drained, undrained))
