@@ -21,7 +21,7 @@ COMMANDS = ("check", "report", "new", "presets", "diff")
 
 EXIT_OK, EXIT_REFER, EXIT_BAD_INPUT = 0, 1, 2
 
-VERDICT_MARK = {"clear": "+", "marginal": "~", "refer": "!"}
+VERDICT_MARK = {"clear": "○", "marginal": "◑", "refer": "●"}  # as in the TUI
 
 
 def _parser() -> argparse.ArgumentParser:
