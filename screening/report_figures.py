@@ -104,7 +104,8 @@ def long_section_png(
     top.legend(handles=handles, fontsize=7, ncols=5, loc="upper left")
     bottom.set_ylabel(f"L ({m})")
     bottom.set_xlabel(f"chainage ({m})")
-    bottom.set_ylim(0, None)
+    ys = [max(line.get_ydata()) for line in bottom.get_lines() if len(line.get_ydata())]
+    bottom.set_ylim(0, float(max(ys, default=1.0)) * 1.4 + 0.1)  # flat L lines stay off the frame
     bottom.legend(
         handles=[
             Line2D([], [], color=LAYER_COLOUR, lw=2.0, label="screened L"),
