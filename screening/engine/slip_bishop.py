@@ -63,12 +63,18 @@ def ordinary_factor(
     f: SliceForces, extra_restoring: FloatArray | float = 0.0, extra_drive: FloatArray | float = 0.0
 ) -> FloatArray:
     """Fellenius' ordinary method of slices (see module docstring)."""
-    cos_a = np.maximum(f.cos_a, _TINY)
-    normal = np.clip(f.weight_kn * cos_a - f.pore_kpa * f.width_m / cos_a, 0.0, None)
-    resist = np.sum(f.cohesion_kpa * f.width_m / cos_a + normal * f.tan_phi, axis=-1)
     drive = _driving(f, np.asarray(extra_drive, dtype=np.float64))
+    active = drive > _TINY
+    return _ordinary(f, extra_restoring, active, np.where(active, drive, 1.0))
+
+
+def _ordinary(f: SliceForces, extra_restoring, active, safe_drive) -> FloatArray:
+    """Ordinary factor given the driving moment (where ``active``; 1.0 elsewhere)."""
+    cos_a = np.maximum(f.cos_a, _TINY)
+    normal = np.maximum(f.weight_kn * cos_a - f.pore_kpa * f.width_m / cos_a, 0.0)
+    resist = np.sum(f.cohesion_kpa * f.width_m / cos_a + normal * f.tan_phi, axis=-1)
     num = f.radius_m * resist + extra_restoring
-    return np.where(drive > _TINY, num / np.where(drive > _TINY, drive, 1.0), np.inf)
+    return np.where(active, num / safe_drive, np.inf)
 
 
 def bishop_factor(
@@ -86,12 +92,12 @@ def bishop_factor(
     drive = _driving(f, np.asarray(extra_drive, dtype=np.float64))
     active = drive > _TINY
     safe_drive = np.where(active, drive, 1.0)
-    effective = np.clip(f.weight_kn - f.pore_kpa * f.width_m, 0.0, None)
+    effective = np.maximum(f.weight_kn - f.pore_kpa * f.width_m, 0.0)
     top = f.radius_m[..., None] * (f.cohesion_kpa * f.width_m + effective * f.tan_phi)
     floor = np.where(f.tan_phi > 0, M_ALPHA_MIN, _TINY).astype(top.dtype)
     slope = f.sin_a * f.tan_phi
     restoring = np.broadcast_to(np.asarray(extra_restoring, dtype=top.dtype), drive.shape)
-    factor = ordinary_factor(f, extra_restoring, extra_drive)
+    factor = _ordinary(f, extra_restoring, active, safe_drive)
     factor = np.where(active & np.isfinite(factor) & (factor > 0), factor, 1.0)
     # Iterate on every surface while most still move, then gather the few that do once and
     # iterate on those alone (a handful of slow surfaces must not keep the whole batch busy).
@@ -106,7 +112,7 @@ def bishop_factor(
     iterations = 0
     while iterations < max_iterations and moving.any():
         iterations += 1
-        if moving.mean() > 0.25:
+        if 4 * np.count_nonzero(moving) > moving.size:  # more than a quarter still move
             m_alpha = np.maximum(cos_a + slope_f / np.maximum(factor, _TINY)[:, None], floor_f)
             new = np.maximum((np.sum(top_f / m_alpha, axis=-1) + rest_f) / drive_f, 0.0)
             # Each surface stops at its own convergence, whatever else is in the batch.

@@ -122,17 +122,18 @@ def ground_level(section: SlipSection, x_m: FloatArray) -> FloatArray:
     gx, gy = section.ground_x_m, section.ground_y_m
     n, k = gx.shape
     flat = x_m.reshape(n, -1)
-    # Index of the polyline piece holding each x: the last vertex strictly left of it.
-    piece = np.zeros(flat.shape, dtype=np.int64)
+    # Index of the polyline piece holding each x: the last vertex strictly left of it, as a
+    # flat index into the (n, k) vertex arrays (one gather per end instead of take_along_axis).
+    piece = np.repeat(np.arange(0, n * k, k, dtype=np.int64)[:, None], flat.shape[1], 1)
     for j in range(1, k - 1):  # the few vertices of one ground line, not the segments
         piece += flat > gx[:, j : j + 1]
-    x0 = np.take_along_axis(gx, piece, 1)
-    x1 = np.take_along_axis(gx, piece + 1, 1)
-    y0 = np.take_along_axis(gy, piece, 1)
-    y1 = np.take_along_axis(gy, piece + 1, 1)
+    gxf, gyf = gx.ravel(), gy.ravel()
+    x0, x1 = gxf[piece], gxf[piece + 1]
+    y0, y1 = gyf[piece], gyf[piece + 1]
     span = x1 - x0
-    t = np.clip((flat - x0) / np.where(span > 0, span, 1.0), 0.0, None)
-    y = np.where(span > 0, y0 + t * (y1 - y0), y1)
+    positive = span > 0
+    t = np.maximum((flat - x0) / np.where(positive, span, 1.0), 0.0)
+    y = np.where(positive, y0 + t * (y1 - y0), y1)
     return y.reshape(x_m.shape)
 
 
@@ -154,8 +155,9 @@ def make_circles(
     All three inputs are ``(n, c)``. Circles that are not valid (see the module docstring) keep
     finite numbers but ``valid`` is False.
     """
-    ye = ground_level(section, x_exit_m)
-    yn = ground_level(section, x_entry_m)
+    c = x_exit_m.shape[1]
+    ends = ground_level(section, np.concatenate([x_exit_m, x_entry_m], axis=1))
+    ye, yn = ends[:, :c], ends[:, c:]
     vx, vy = x_entry_m - x_exit_m, yn - ye
     chord = np.hypot(vx, vy)
     safe_chord = np.where(chord > 1e-9, chord, 1.0)
@@ -179,7 +181,7 @@ def make_circles(
 def _zone_slices(lo: FloatArray, hi: FloatArray, count: int) -> tuple[FloatArray, FloatArray]:
     """Midpoints and widths of ``count`` equal slices between ``lo`` and ``hi`` (n, c)."""
     frac = ((np.arange(count) + 0.5) / count).astype(lo.dtype)
-    width = np.clip(hi - lo, 0.0, None)
+    width = np.maximum(hi - lo, 0.0)
     return lo[..., None] + frac * width[..., None], np.repeat(width[..., None] / count, count, -1)
 
 
@@ -204,21 +206,19 @@ def make_slices(
     base = np.where(np.isfinite(base), base, top)
     base = np.minimum(base, top)
 
+    # Soil indices are the columns of the (n, 3) soil arrays: one gather by flat index.
+    row = (np.arange(section.n, dtype=np.int64) * 3)[:, None, None]
+
     def soil(values: FloatArray, which: np.ndarray) -> FloatArray:
-        v = values[:, None, None, :]
-        return np.where(
-            which == FOUNDATION,
-            v[..., FOUNDATION],
-            np.where(which == REINFORCED, v[..., REINFORCED], v[..., RETAINED]),
-        )
+        return values.ravel()[which + row]
 
     gamma = soils.unit_weight_kn_m3[:, None, None, :]
     h = section.height_m[:, None, None]
     in_front = x < 0
     mid_soil = np.where(in_front, FOUNDATION, np.where(x < length[..., None], REINFORCED, RETAINED))
-    below = np.clip(np.minimum(top, 0.0) - base, 0.0, None)
-    middle = np.clip(np.minimum(top, h) - np.maximum(base, 0.0), 0.0, None)
-    above = np.clip(top - np.maximum(base, h), 0.0, None)
+    below = np.maximum(np.minimum(top, 0.0) - base, 0.0)
+    middle = np.maximum(np.minimum(top, h) - np.maximum(base, 0.0), 0.0)
+    above = np.maximum(top - np.maximum(base, h), 0.0)
     g_top = np.where(in_front, gamma[..., FOUNDATION], gamma[..., RETAINED])
     weight = b * (
         gamma[..., FOUNDATION] * below
@@ -235,7 +235,7 @@ def make_slices(
     cos_a = np.sqrt(1.0 - sin_a**2)
     # Where the ground is below the water table (a toe slope), the water stands at the ground.
     water = np.minimum(section.water_level_m[:, None, None], top)
-    pore = WATER_UNIT_WEIGHT_KN_M3 * np.clip(water - base, 0.0, None)
+    pore = WATER_UNIT_WEIGHT_KN_M3 * np.maximum(water - base, 0.0)
     return Slices(b, x, base, top, weight, sin_a, cos_a, c, tphi, pore)
 
 
@@ -253,7 +253,7 @@ def reinforcement_moment(section: SlipSection, layers: SlipLayers, circles: Circ
     yc = circles.centre_y_m[..., None]
     r = circles.radius_m[..., None]
     reach = r**2 - (y - yc) ** 2
-    s = np.sqrt(np.clip(reach, 0.0, None))
+    s = np.sqrt(np.maximum(reach, 0.0))
     x_cut = xc + s
     length = section.length_m[:, None, None]
     cut = (
@@ -271,4 +271,4 @@ def reinforcement_moment(section: SlipSection, layers: SlipLayers, circles: Circ
     facing = np.where(xc - s <= 0.0, layers.front_kn_m[:, None, :], 0.0)
     p = layers.pullout_kn_m2[:, None, :]
     force = np.minimum(layers.rupture_kn_m[:, None, :], np.minimum(p * beyond, p * front + facing))
-    return np.sum(np.where(cut, np.clip(force, 0.0, None) * (yc - y), 0.0), axis=-1)
+    return np.sum(np.where(cut, np.maximum(force, 0.0) * (yc - y), 0.0), axis=-1)

@@ -26,7 +26,6 @@ from screening.engine.slip_geometry import (
     SlipLayers,
     SlipSection,
     SlipSoils,
-    arc_level,
     make_circles,
     make_slices,
     reinforcement_moment,
@@ -173,12 +172,14 @@ _FIELDS = (
 def classify(section: SlipSection, circles: Circles) -> np.ndarray:
     """(n, c) family index: GLOBAL, COMPOUND or INVALID."""
     length = section.length_m[:, None]
-    ends = np.stack(
-        [np.zeros_like(circles.centre_x_m), np.broadcast_to(length, circles.centre_x_m.shape)],
-        axis=-1,
-    )
-    arc = arc_level(circles, ends)
-    under = np.all(np.nan_to_num(arc, nan=np.inf) <= 1e-9, axis=-1) & (circles.x_entry_m >= length)
+    xc, yc, r2 = circles.centre_x_m, circles.centre_y_m, circles.radius_m**2
+
+    def below_base(x: FloatArray) -> np.ndarray:
+        # The lower arc exists at x and lies at or below the base (a missing arc does not).
+        inside = r2 - (x - xc) ** 2
+        return (inside >= 0) & (yc - np.sqrt(np.maximum(inside, 0)) <= 1e-9)
+
+    under = below_base(np.zeros_like(length)) & below_base(length) & (circles.x_entry_m >= length)
     return np.where(circles.valid, np.where(under, GLOBAL, COMPOUND), INVALID)
 
 
@@ -206,8 +207,11 @@ def evaluate(
         sl.pore_kpa,
         circles.radius_m,
     )
-    lever = circles.centre_y_m[..., None] - 0.5 * (sl.base_y_m + sl.top_y_m)
-    drive = kh[:, None] * np.sum(sl.weight_kn * lever, axis=-1)
+    if np.any(kh):
+        lever = circles.centre_y_m[..., None] - 0.5 * (sl.base_y_m + sl.top_y_m)
+        drive = kh[:, None] * np.sum(sl.weight_kn * lever, axis=-1)
+    else:  # no pseudo-static force: skip the moment sum (the same zeros, in the same dtype)
+        drive = np.zeros(circles.radius_m.shape, dtype=np.result_type(kh, sl.weight_kn))
     restoring = reinforcement_moment(section, layers, circles)
     result = bishop_factor(forces, restoring, drive)
     value = np.where(circles.valid, result.value, np.inf)
@@ -276,15 +280,14 @@ def _diverse_starts(f: FloatArray, groups: int, starts: int) -> np.ndarray:
 
 def _keep_family_best(fam_f, fam_p, f, cls, params):
     """Update the best factor (n, 2) and circle (n, 2, 3) of each family from a batch."""
+    rows = np.arange(f.shape[0])
     for fam in (COMPOUND, GLOBAL):
         ff = np.where(cls == fam, f, np.inf)
         j = np.argmin(ff, axis=1)
-        val = np.take_along_axis(ff, j[:, None], 1)[:, 0].astype(np.float64)
+        val = ff[rows, j].astype(np.float64)
         better = val < fam_f[:, fam]
         fam_f[:, fam] = np.where(better, val, fam_f[:, fam])
-        fam_p[:, fam] = np.where(
-            better[:, None], np.take_along_axis(params, j[:, None, None], 1)[:, 0], fam_p[:, fam]
-        )
+        fam_p[:, fam] = np.where(better[:, None], params[rows, j], fam_p[:, fam])
     return fam_f, fam_p
 
 
@@ -363,7 +366,7 @@ def search(
         fam_f, fam_p = _keep_family_best(fam_f, fam_p, cf, ccls, cand)
         cf = np.where((wanted == INVALID) | (ccls == wanted), cf, np.inf).reshape(n, k, n_moves)
         j = np.argmin(cf, axis=-1)
-        pick = np.take_along_axis(cf, j[..., None], -1)[..., 0]
+        pick = np.min(cf, axis=-1)  # the value at j (both take the first NaN, if any)
         better = np.isfinite(pick) & (pick < bf - 1e-6)
         bp = np.where(better[..., None], _pick(cand, j, n_moves), bp)
         bf = np.where(better, pick, bf)
