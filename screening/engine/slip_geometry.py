@@ -144,7 +144,7 @@ def arc_level(circles: Circles, x_m: FloatArray) -> FloatArray:
     yc = circles.centre_y_m.reshape(xc.shape)
     r = circles.radius_m.reshape(xc.shape)
     inside = r**2 - (x_m - xc) ** 2
-    return np.where(inside >= 0, yc - np.sqrt(np.clip(inside, 0, None)), np.nan)
+    return np.where(inside >= 0, yc - np.sqrt(np.maximum(inside, 0)), np.nan)
 
 
 def make_circles(
@@ -161,14 +161,14 @@ def make_circles(
     vx, vy = x_entry_m - x_exit_m, yn - ye
     chord = np.hypot(vx, vy)
     safe_chord = np.where(chord > 1e-9, chord, 1.0)
-    half = np.clip(angle_rad, 1e-3, np.pi - 1e-3) / 2
+    half = np.minimum(np.maximum(angle_rad, 1e-3), np.pi - 1e-3) / 2
     offset = 0.5 * safe_chord / np.tan(half)
     xc = 0.5 * (x_exit_m + x_entry_m) - vy / safe_chord * offset
     yc = 0.5 * (ye + yn) + vx / safe_chord * offset
     r = 0.5 * safe_chord / np.sin(half)
     circles = Circles(x_exit_m, x_entry_m, ye, yn, xc, yc, r, np.ones(xc.shape, dtype=bool))
-    gx = np.broadcast_to(section.ground_x_m[:, None, :], (*xc.shape, section.ground_x_m.shape[1]))
-    gy = np.broadcast_to(section.ground_y_m[:, None, :], gx.shape)
+    gx = section.ground_x_m[:, None, :]  # (n, 1, k): broadcasts against the circles
+    gy = section.ground_y_m[:, None, :]
     between = (gx > x_exit_m[..., None] + 1e-9) & (gx < x_entry_m[..., None] - 1e-9)
     arc = arc_level(circles, gx)
     under = np.all(~between | (arc <= gy + 1e-9), axis=-1)
@@ -178,11 +178,18 @@ def make_circles(
     return Circles(x_exit_m, x_entry_m, ye, yn, xc, yc, r, valid)
 
 
-def _zone_slices(lo: FloatArray, hi: FloatArray, count: int) -> tuple[FloatArray, FloatArray]:
-    """Midpoints and widths of ``count`` equal slices between ``lo`` and ``hi`` (n, c)."""
-    frac = ((np.arange(count) + 0.5) / count).astype(lo.dtype)
-    width = np.maximum(hi - lo, 0.0)
-    return lo[..., None] + frac * width[..., None], np.repeat(width[..., None] / count, count, -1)
+_TEMPLATES: dict[tuple, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}
+
+
+def _slice_template(counts: tuple[int, int, int], dtype) -> tuple[np.ndarray, ...]:
+    """Zone of each slice (s,), its midpoint as a fraction of the zone (s,) and the slice
+    count of each zone (3,), in ``dtype``; cached per ``counts`` (a handful of densities)."""
+    key = (tuple(counts), np.dtype(dtype).str)
+    if key not in _TEMPLATES:
+        zone = np.repeat(np.arange(3), counts)
+        frac = np.concatenate([((np.arange(c) + 0.5) / c).astype(dtype) for c in counts])
+        _TEMPLATES[key] = (zone, frac, np.asarray(counts, dtype=dtype))
+    return _TEMPLATES[key]
 
 
 def make_slices(
@@ -192,15 +199,16 @@ def make_slices(
     behind it, so the zone edges x = 0 and x = L are slice boundaries."""
     xe, xn = circles.x_exit_m, circles.x_entry_m
     length = section.length_m[:, None]
-    face = np.clip(np.zeros_like(xe), xe, xn)
-    back = np.clip(length, xe, xn)
-    parts = [
-        _zone_slices(xe, face, counts[0]),
-        _zone_slices(face, back, counts[1]),
-        _zone_slices(back, xn, counts[2]),
-    ]
-    x = np.concatenate([p[0] for p in parts], axis=-1)
-    b = np.concatenate([p[1] for p in parts], axis=-1)
+    face = np.minimum(np.maximum(np.zeros_like(xe), xe), xn)
+    back = np.minimum(np.maximum(length, xe), xn)
+    # The three zones at once: their ends (n, c, 3), then each slice picks its zone.
+    zone, frac, count = _slice_template(counts, xe.dtype)
+    lo = np.stack([xe, face, back], axis=-1)
+    width = np.maximum(np.stack([face, back, xn], axis=-1) - lo, 0.0)
+    # np.take keeps the slices contiguous (fancy indexing would not, and sums over a strided
+    # last axis round differently from numpy's pairwise sums).
+    x = np.take(lo, zone, axis=-1) + frac * np.take(width, zone, axis=-1)
+    b = np.take(width / count, zone, axis=-1)
     top = ground_level(section, x)
     base = arc_level(circles, x)
     base = np.where(np.isfinite(base), base, top)
@@ -231,7 +239,7 @@ def make_slices(
     c = soil(soils.cohesion_kpa, base_soil)
     tphi = soil(soils.tan_phi, base_soil)
     r = circles.radius_m[..., None]
-    sin_a = np.clip((x - circles.centre_x_m[..., None]) / r, -1.0, 1.0)
+    sin_a = np.minimum(np.maximum((x - circles.centre_x_m[..., None]) / r, -1.0), 1.0)
     cos_a = np.sqrt(1.0 - sin_a**2)
     # Where the ground is below the water table (a toe slope), the water stands at the ground.
     water = np.minimum(section.water_level_m[:, None, None], top)

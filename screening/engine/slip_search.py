@@ -253,15 +253,12 @@ def _pick(a: np.ndarray, j: np.ndarray, n_moves: int) -> np.ndarray:
 
 
 def _clip_params(p: FloatArray, bounds: Bounds) -> FloatArray:
-    e = np.clip(
-        p[..., 0],
-        bounds.exit_min_m.reshape(-1, *(1,) * (p.ndim - 2)),
-        bounds.exit_max_m.reshape(-1, *(1,) * (p.ndim - 2)),
-    )
     shape = (-1, *(1,) * (p.ndim - 2))
+    lo, hi = bounds.exit_min_m.reshape(shape), bounds.exit_max_m.reshape(shape)
+    e = np.minimum(np.maximum(p[..., 0], lo), hi)
     n_lo = np.maximum(bounds.entry_min_m.reshape(shape), e + 1e-3)
-    n = np.clip(p[..., 1], n_lo, np.maximum(bounds.entry_max_m.reshape(shape), n_lo))
-    a = np.clip(p[..., 2], bounds.angle_min_rad, bounds.angle_max_rad)
+    n = np.minimum(np.maximum(p[..., 1], n_lo), np.maximum(bounds.entry_max_m.reshape(shape), n_lo))
+    a = np.minimum(np.maximum(p[..., 2], bounds.angle_min_rad), bounds.angle_max_rad)
     return np.stack([e, n, a], axis=-1)
 
 
