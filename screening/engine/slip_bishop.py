@@ -56,7 +56,7 @@ class Factor:
 
 
 def _driving(f: SliceForces, extra_drive: FloatArray) -> FloatArray:
-    return f.radius_m * np.sum(f.weight_kn * f.sin_a, axis=-1) + extra_drive
+    return f.radius_m * np.add.reduce(f.weight_kn * f.sin_a, axis=-1) + extra_drive
 
 
 def ordinary_factor(
@@ -103,9 +103,10 @@ def bishop_factor(
     # iterate on those alone (a handful of slow surfaces must not keep the whole batch busy).
     shape = drive.shape
     flat = lambda a: a.reshape(-1, a.shape[-1])  # noqa: E731
-    cos_a = flat(np.broadcast_to(f.cos_a, top.shape))
+    full = lambda a: a if a.shape == top.shape else np.broadcast_to(a, top.shape)  # noqa: E731
+    cos_a = flat(full(f.cos_a))
     slope_f, top_f = flat(slope), flat(top)
-    floor_f = flat(np.broadcast_to(floor, top.shape))
+    floor_f = flat(full(floor))
     rest_f, drive_f = restoring.reshape(-1), safe_drive.reshape(-1)
     factor = factor.reshape(-1).copy()
     moving = active.reshape(-1).copy()
