@@ -31,6 +31,19 @@ def checks_table(res: SegmentResult, display: Display = SI) -> Table:
     ):
         table.add_column(heading, justify=justify, no_wrap=True)
     for name, check in res.checks.items():
+        if check.demand == 0.0 and check.capacity == 0.0 and check.passes:
+            # Nothing to check here (no seismic load, no circle of this family in range):
+            # dashes and "n/a", not a capped CDR of 99 that reads like a result.
+            table.add_row(
+                Text("  " + name, style="dim"),
+                Text(""),
+                "-",
+                "-",
+                Text(""),
+                Text("-", style="dim"),
+                Text("n/a", style="dim"),  # the reason is in the check's detail
+            )
+            continue
         governs = name == res.governing
         status = "fails" if not check.passes else ("governs" if governs else "")
         style = "bold red" if not check.passes else ("bold" if governs else "")
