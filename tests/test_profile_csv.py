@@ -2,7 +2,7 @@
 
 Every expected value below is worked out by hand from the invented profile in
 tests/data/profiles/ (linear interpolation between the profile points): no engine result
-is involved, so the numbers are checks, not recordings.
+is involved, so the numbers are independent checks, not copies of program output.
 """
 
 from __future__ import annotations
@@ -18,16 +18,10 @@ from screening.corridor import (
     join_low_pieces,
     select_segments,
 )
+from screening.engine.samples import LRFD, make_defaults
 from screening.errors import InputError
 from screening.model import (
     Defaults,
-    FactorSet,
-    Fill,
-    Foundation,
-    Grade,
-    LoadCase,
-    Reinforcement,
-    Soil,
 )
 from screening.profile_csv import read_profile_csv
 
@@ -35,22 +29,10 @@ DATA = Path(__file__).parent / "data" / "profiles"
 
 
 def _defaults(spacing_m: float | None = None) -> Defaults:
-    return Defaults(
-        fill=Fill(unit_weight_kn_m3=20.0, friction_deg=34.0),
-        retained=Soil(),
-        foundation=Foundation(),
-        reinforcement=Reinforcement(
-            material="steel-strip",
-            kind="inextensible",
-            grades=(Grade(name="4/m", elements_per_m=4.0, width_mm=50.0, thickness_mm=4.0),),
-            spacing_m=0.75,
-        ),
-        spacing_m=spacing_m,
-        traffic="approach",
-    )
+    return make_defaults(spacing_m=spacing_m, traffic="approach")
 
 
-FACTORS = FactorSet(id="t", name="test", method="lrfd", cases=(LoadCase("I"),), resistance={})
+FACTORS = LRFD
 
 
 def _corridor(name: str, **kw):

@@ -17,17 +17,8 @@ import numpy as np
 import pytest
 
 from screening.corridor import corridor_from_profile
+from screening.engine.samples import ASD, GEOGRID, make_defaults
 from screening.errors import InputError
-from screening.model import (
-    Defaults,
-    FactorSet,
-    Fill,
-    Foundation,
-    Grade,
-    LoadCase,
-    Reinforcement,
-    Soil,
-)
 from screening.profile_xml import read_profile_xml
 
 DATA = Path(__file__).parent / "data" / "profiles"
@@ -77,21 +68,12 @@ def test_named_profiles_swap_top_and_toe_for_a_wall_in_cut():
 
 
 def test_corridor_from_landxml_segments_by_step():
-    defaults = Defaults(
-        fill=Fill(unit_weight_kn_m3=20.0, friction_deg=34.0),
-        retained=Soil(),
-        foundation=Foundation(),
-        reinforcement=Reinforcement(
-            material="geogrid",
-            kind="extensible",
-            grades=(Grade("G1", ultimate_strength_kn_m=60.0),),
-        ),
-    )
+    defaults = make_defaults(reinforcement=GEOGRID)
     c = corridor_from_profile(
         DATA / "approach.xml",
         name="Approach",
         defaults=defaults,
-        factor_set=FactorSet(id="t", name="t", method="asd", cases=(LoadCase("I"),), resistance={}),
+        factor_set=ASD,
         max_step_m=1.0,
         max_length_m=100.0,
     )

@@ -3,6 +3,10 @@
 Each ``<name>.toml`` has a sidecar ``<name>.expected`` holding the one line a person sees
 (``str(InputError)``). The file is read under its bare name so the messages do not depend
 on where the checkout lives.
+
+Source: these messages are our own contract (DESIGN.md: file, line and column or segment and
+field, and what would be valid), not an engineering fact; the value ranges they enforce are
+common practice, no source (friction 0-50 degrees, positive heights, chainage order).
 """
 
 from __future__ import annotations

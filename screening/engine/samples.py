@@ -174,6 +174,13 @@ def make_segment(i: int = 0, **overrides) -> Segment:
     return Segment(**base)
 
 
+def make_defaults(**overrides) -> Defaults:
+    """A ``[defaults]`` table of the sample soils and steel strips; any field overridable."""
+    base = dict(fill=SELECT_FILL, retained=RETAINED, foundation=FOUNDATION, reinforcement=STRIP)
+    base.update(overrides)
+    return Defaults(**base)
+
+
 def make_corridor(
     segments: tuple[Segment, ...] | list[Segment],
     factor_set: FactorSet = LRFD,
@@ -183,7 +190,7 @@ def make_corridor(
     """A corridor around ``segments`` with defaults taken from the first one."""
     segs = tuple(segments)
     first = segs[0] if segs else make_segment()
-    defaults = Defaults(
+    defaults = make_defaults(
         fill=first.fill,
         retained=first.retained,
         foundation=first.foundation,
