@@ -58,22 +58,10 @@ asyncio.run(main())
 def replicated(n: int):
     """The demo corridor repeated along the chainage to ``n`` segments (new ids)."""
     from screening import store
+    from screening.engine.samples import repeated
     from screening.presets import demo_corridor_path
 
-    corridor = store.load(demo_corridor_path())
-    base, segments, k = corridor.segments, [], 0
-    while len(segments) < n:
-        for s in base:
-            segments.append(
-                dataclasses.replace(
-                    s,
-                    id=f"{s.id}.{k}",
-                    chainage_start_m=s.chainage_start_m + 2000.0 * k,
-                    chainage_end_m=s.chainage_end_m + 2000.0 * k,
-                )
-            )
-        k += 1
-    return dataclasses.replace(corridor, segments=tuple(segments[:n]))
+    return repeated(store.load(demo_corridor_path()), n)
 
 
 def first_frame(n: int) -> None:

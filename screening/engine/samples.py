@@ -211,3 +211,21 @@ def with_segment(corridor: Corridor, i: int, **changes) -> Corridor:
     segs = list(corridor.segments)
     segs[i] = replace(segs[i], **changes)
     return replace(corridor, segments=tuple(segs))
+
+
+def repeated(corridor: Corridor, n: int, *, shift_m: float = 2000.0) -> Corridor:
+    """``corridor`` repeated along the chainage to ``n`` segments: each copy is moved by
+    ``shift_m`` and its ids get ``.k``, so walls never overlap (large-corridor tests, benches)."""
+    base, segments, k = corridor.segments, [], 0
+    while len(segments) < n:
+        segments += [
+            replace(
+                s,
+                id=f"{s.id}.{k}",
+                chainage_start_m=s.chainage_start_m + shift_m * k,
+                chainage_end_m=s.chainage_end_m + shift_m * k,
+            )
+            for s in base
+        ]
+        k += 1
+    return replace(corridor, segments=tuple(segments[:n]))

@@ -3,13 +3,13 @@ background screen of a large corridor (progress, cancel, a UI that keeps answeri
 
 from __future__ import annotations
 
-import dataclasses
 import threading
 from pathlib import Path
 
 import pytest
 
 from screening import engine
+from screening.engine.samples import repeated
 from screening.presets import load_presets
 from screening.tui.app import WallscreenApp, open_session
 from screening.tui.config import load_state
@@ -29,20 +29,7 @@ CAUTION_WORDS = ("not a design", "licensed engineer", "governing local code")
 
 def replicated(n: int):
     """The demo corridor repeated along the chainage to ``n`` segments (new ids)."""
-    corridor = open_session(None).corridor
-    base, segments, k = corridor.segments, [], 0
-    while len(segments) < n:
-        for s in base:
-            segments.append(
-                dataclasses.replace(
-                    s,
-                    id=f"{s.id}.{k}",
-                    chainage_start_m=s.chainage_start_m + 2000.0 * k,
-                    chainage_end_m=s.chainage_end_m + 2000.0 * k,
-                )
-            )
-        k += 1
-    return dataclasses.replace(corridor, segments=tuple(segments[:n]))
+    return repeated(open_session(None).corridor, n)
 
 
 async def test_cautions_on_first_start_only(corridor_file: Path):
