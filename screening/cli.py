@@ -165,7 +165,7 @@ def _load_and_screen(path: Path, factor_set_id: str | None):
     from screening.errors import InputError
     from screening.presets import load_presets
 
-    corridor = store.load(path)
+    corridor, stored = store.load_with_screen(path)
     if factor_set_id:
         sets = load_presets().factor_sets
         if factor_set_id not in sets:
@@ -174,12 +174,12 @@ def _load_and_screen(path: Path, factor_set_id: str | None):
                 file="--factor-set",
             )
         corridor = replace(corridor, factor_set=sets[factor_set_id])
-    return corridor, screen(corridor)
+    return corridor, screen(corridor), stored
 
 
 def _cmd_check(args: argparse.Namespace) -> int:
-    corridor, result = _load_and_screen(args.file, args.factor_set)
-    for line in stale_results(args.file, result):
+    corridor, result, stored = _load_and_screen(args.file, args.factor_set)
+    for line in stale_results(args.file, stored, result):
         print(f"wallscreen: warning: {line}", file=sys.stderr)
     if args.json:
         from screening.jsonout import corridor_json
@@ -193,15 +193,13 @@ def _cmd_check(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
-def stale_results(path: Path, result) -> list[str]:
-    """Where the results a file carries from its last save disagree with a fresh screen.
+def stale_results(path: Path, stored, result) -> list[str]:
+    """Where the results a file carries from its last save (``stored``, a
+    ``store.StoredScreen`` or None) disagree with a fresh screen.
 
     Results in a file are never inputs; a disagreement means the engine, the presets or the
     factor set changed since the file was saved, which the design team should know.
     """
-    from screening.store import stored_screen
-
-    stored = stored_screen(path.read_text(encoding="utf-8"), str(path))
     if stored is None or stored.screen.get("factor_set") != result.factor_set:
         return []
     out = []
@@ -272,7 +270,7 @@ def _cmd_report(args: argparse.Namespace) -> int:
             f"report type {suffix or '(none)'!r} not known; use .html, .md or .csv",
             file=str(args.output),
         )
-    corridor, result = _load_and_screen(args.file, args.factor_set)
+    corridor, result, _ = _load_and_screen(args.file, args.factor_set)
     if args.monte_carlo < 0:
         raise InputError(
             "--monte-carlo must be 0 or a positive number of samples", file="--monte-carlo"

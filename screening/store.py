@@ -61,6 +61,7 @@ __all__ = [
     "loads",
     "save",
     "stored_screen",
+    "load_with_screen",
 ]
 
 TOP_KEYS = ("schema", "screen", "corridor", "defaults", "rules", "segment")
@@ -83,10 +84,26 @@ def load(path: str | os.PathLike[str], presets: Presets | None = None) -> model.
     return loads(read_text(Path(path), source), source, presets)
 
 
+def load_with_screen(
+    path: str | os.PathLike[str], presets: Presets | None = None
+) -> tuple[model.Corridor, StoredScreen | None]:
+    """The corridor at ``path`` and the results it carries from its last save, from one
+    read and one parse (the results are never inputs: they are for comparison only)."""
+    source = str(path)
+    text = read_text(Path(path), source)
+    doc = parse_toml(text, source)
+    return _corridor(doc, text, source, presets), _stored(doc)
+
+
 def loads(text: str, source: str = "<input>", presets: Presets | None = None) -> model.Corridor:
     """Read and check a corridor from TOML text; ``source`` names it in messages."""
+    return _corridor(parse_toml(text, source), text, source, presets)
+
+
+def _corridor(
+    doc: dict[str, Any], text: str, source: str, presets: Presets | None
+) -> model.Corridor:
     presets = presets or load_presets()
-    doc = parse_toml(text, source)
     smap = SourceMap(text)
     root = Where(source, section=("", 0), smap=smap)
     for key in doc:
@@ -196,7 +213,10 @@ class StoredScreen:
 def stored_screen(text: str, source: str = "<input>") -> StoredScreen | None:
     """The results written in a corridor file, to compare with a fresh screen; None when
     the file has no [screen] table. Only the TOML syntax is checked here."""
-    doc = parse_toml(text, source)
+    return _stored(parse_toml(text, source))
+
+
+def _stored(doc: dict[str, Any]) -> StoredScreen | None:
     if not isinstance(doc.get("screen"), dict):
         return None
     results = {
