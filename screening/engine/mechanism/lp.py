@@ -142,8 +142,7 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
     import highspy
 
     t0 = time.perf_counter()
-    h = highspy.Highs()
-    h.setOptionValue("output_flag", False)
+    h = _new_highs(highspy)
     h.setOptionValue("presolve", "off")
     lower = np.zeros(cols.n_rows)
     lower[cols.work_row] = 1.0
@@ -177,6 +176,11 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
         h.run()
         status = h.getModelStatus()
         if status != highspy.HighsModelStatus.kOptimal:
+            # a stale basis can leave the solver stuck: once more from scratch, then give up
+            h.clearSolver()
+            h.run()
+            status = h.getModelStatus()
+        if status != highspy.HighsModelStatus.kOptimal:
             raise _status_error(h.modelStatusToString(status))
         iterations += int(h.getInfo().simplex_iteration_count)
         rounds += 1
@@ -207,6 +211,16 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
         "highspy",
         (ids, basis),
     )
+
+
+def _new_highs(highspy):
+    """A silent HiGHS instance. The core class logs nothing before ``output_flag`` is off;
+    the public wrapper prints a banner to stdout on its first construction, which would spoil
+    the command line's JSON output."""
+    core = getattr(getattr(highspy, "_core", None), "_Highs", None)
+    h = core() if core is not None else highspy.Highs()
+    h.setOptionValue("output_flag", False)
+    return h
 
 
 def _set_warm_basis(h, warm, ids: np.ndarray) -> None:

@@ -7,6 +7,8 @@ wall cross-section has its own builder in ``section.py``.
 
 from __future__ import annotations
 
+import math
+
 from screening.engine.mechanism.problem import (
     DEAD,
     Band,
@@ -18,6 +20,18 @@ from screening.engine.mechanism.problem import (
 )
 
 
+def prandtl_extent(width_m: float, friction_deg: float) -> tuple[float, float]:
+    """Half-width (from the footing centre) and depth of Prandtl's mechanism [pub, Prandtl
+    1920; Reissner 1924]: wedge at 45 + phi/2 under the footing, log-spiral fan from radius
+    r0 = B / (2 cos(45 + phi/2)) to r1 = r0 exp(pi/2 tan phi), passive wedge at 45 - phi/2.
+    The depth is the fan's radius a quarter turn in, a round figure that covers it."""
+    phi = math.radians(friction_deg)
+    r0 = width_m / (2.0 * math.cos(math.pi / 4 + phi / 2))
+    r1 = r0 * math.exp(math.pi / 2 * math.tan(phi))
+    half = width_m / 2 + 2.0 * r1 * math.cos(math.pi / 4 - phi / 2)
+    return half, r0 * math.exp(math.pi / 4 * math.tan(phi))
+
+
 def footing_problem(
     *,
     width_m: float = 1.0,
@@ -26,22 +40,28 @@ def footing_problem(
     friction_deg: float = 0.0,
     surcharge_kpa: float = 0.0,
     rough: bool = True,
-    half_width_m: float | None = None,
-    depth_m: float | None = None,
+    extent_scale: tuple[float, float] | None = None,
+    focus_ratio: float | None = None,
 ) -> Problem:
     """Rigid strip footing of width B centred at x = 0 on level ground (y = 0).
 
     The footing's load factor is its bearing pressure q_u (kPa): N_c = q_u / c for weightless
     Tresca soil, N_q = q_u / q with a surcharge q beside the footing on weightless
-    cohesionless soil, N_gamma = 2 q_u / (gamma B) for heavy cohesionless soil.
-    The domain reaches ``half_width_m`` each side (default 2B, 4B for phi > 25 deg) and
-    ``depth_m`` down (default B, 2B for phi > 25 deg): Prandtl's mechanism for phi = 0 reaches
-    B beyond each edge and B/sqrt(2) down; frictional ones reach further [pub, Prandtl 1920].
+    cohesionless soil, N_gamma = 2 q_u / (gamma B) for heavy cohesionless soil. The domain
+    reaches 1.1 times Prandtl's mechanism each side and 1.2 times its depth (its fixed sides
+    then lie just outside it); the fine box covers the mechanism itself. ``extent_scale``
+    shrinks that (default (0.45, 0.6) for self weight alone: the N_gamma mechanism is much
+    smaller than the surcharge one, so the nodes go where it is). ``focus_ratio`` refines the
+    columns at the footing edges and the ground row (default 0.4 for phi > 0, where the fans
+    at the edges carry most of the discretisation error; none for phi = 0, measured no gain).
     """
     b = width_m
-    wide = friction_deg > 25.0
-    half = half_width_m if half_width_m is not None else (4.0 if wide else 2.0) * b
-    depth = depth_m if depth_m is not None else (2.0 if wide else 1.0) * b
+    weight_only = unit_weight_kn_m3 > 0 and cohesion_kpa == 0 and surcharge_kpa == 0
+    sx, sy = extent_scale or ((0.45, 0.6) if weight_only else (1.0, 1.0))
+    focus = focus_ratio if focus_ratio is not None else (0.4 if friction_deg > 0 else 1.0)
+    reach, deep = prandtl_extent(b, friction_deg)
+    reach, deep = sx * reach, sy * deep
+    half, depth = 1.1 * reach, 1.2 * deep
     soil = Material("soil", unit_weight_kn_m3, cohesion_kpa, friction_deg)
     band = Band(0, -half, half, -depth, -depth, 0.0, 0.0)
     loads = ()
@@ -50,14 +70,17 @@ def footing_problem(
             SurfaceLoad(-half, -b / 2, surcharge_kpa, DEAD),
             SurfaceLoad(b / 2, half, surcharge_kpa, DEAD),
         )
-    reach = (3.0 if wide else 1.6) * b
     box = Refinement(
-        x0_m=-reach,
-        x1_m=reach,
-        y0_m=-(1.2 if wide else 0.8) * b,
+        x0_m=-1.03 * reach,
+        x1_m=1.03 * reach,
+        y0_m=-1.06 * deep,
         y1_m=0.0,
         columns_m=(-b / 2, 0.0, b / 2),
         rows_m=(0.0,),
+        grading=0.6,
+        focus_columns_m=(-b / 2, b / 2) if focus < 1.0 else (),
+        focus_rows_m=(0.0,) if focus < 1.0 else (),
+        focus_ratio=focus,
     )
     return Problem(
         materials=(soil,),
