@@ -248,7 +248,7 @@ def _primitive(nodes: Nodes, a: np.ndarray, b: np.ndarray) -> np.ndarray:
         q = c * span_y + (yq - y.min())
         idx = np.clip(np.searchsorted(sorted_keys, q), 1, nodes.n - 1)
         near = np.minimum(np.abs(sorted_keys[idx] - q), np.abs(sorted_keys[idx - 1] - q))
-        out[nv[sl]] = ~np.any(between & (near <= 1e-7), axis=1)
+        out[nv[sl]] = ~np.any(between & (near <= 1e-6), axis=1)
     return out
 
 

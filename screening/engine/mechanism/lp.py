@@ -114,6 +114,8 @@ class Outcome:
     seconds: float
     solver: str
     basis: object = None
+    dual: np.ndarray | None = None
+    """Row duals of the final LP (they price every candidate at >= 0)."""
 
 
 def _status_error(status: str) -> EngineError:
@@ -210,6 +212,7 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
         time.perf_counter() - t0,
         "highspy",
         (ids, basis),
+        dual,
     )
 
 
@@ -304,4 +307,6 @@ def solve_scipy(cols: Columns, start: np.ndarray) -> Outcome:
         iterations,
         time.perf_counter() - t0,
         "scipy",
+        None,
+        np.asarray(res.eqlin.marginals),
     )
