@@ -23,7 +23,7 @@ from screening.engine.mechanism.problem import TOL_M, Problem, ground_level
 
 DROP_BELOW_SURFACE = 0.35
 """A row closer below the ground than this share of its spacing gets no node there."""
-INITIAL_REACH = 2
+INITIAL_REACH = 1
 """First LP: lines to nodes at most this many columns and rows away (adaptive start)."""
 
 

@@ -227,15 +227,21 @@ def _new_highs(highspy):
 
 
 def _set_warm_basis(h, warm, ids: np.ndarray) -> None:
-    """Start from the previous LP's basis when the new LP has the same columns."""
+    """Start from an earlier LP's basis: the candidate set only grows, so its columns are all
+    here; the others start non-basic at zero (still a basis: the rows are the same)."""
+    import highspy
+
     old_ids, basis = warm
-    if old_ids.size != ids.size:
-        return
-    order = np.argsort(old_ids, kind="stable")
-    if not np.array_equal(old_ids[order], ids):
-        return
     status = list(basis.col_status)
-    basis.col_status = [status[0]] + [status[1 + i] for i in order]
+    where = np.searchsorted(ids, old_ids)
+    if where.size and (where.max() >= ids.size or not np.array_equal(ids[where], old_ids)):
+        return
+    lower = highspy.HighsBasisStatus.kLower
+    new = [lower] * (ids.size + 1)
+    new[0] = status[0]
+    for k, j in enumerate(where):
+        new[1 + j] = status[1 + k]
+    basis.col_status = new
     h.setBasis(basis)
 
 

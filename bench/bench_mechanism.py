@@ -1,0 +1,165 @@
+"""Speed and accuracy of the mechanism check (DLO upper bound), on one core.
+
+Run from the repository root:
+    python bench/bench_mechanism.py [--nodes 350] [--walls 30] [--quick]
+
+Prints:
+1. one load factor (Prandtl, N_c) and one strength factor (a 6 m reinforced wall) at about
+   ``--nodes`` nodes: time, nodes, lines (target: one factor <= 1 s at 300-400 nodes);
+2. Prandtl's N_c error against 2 + pi as the grid grows, and the N_q and N_gamma errors
+   (N_gamma against Martin's 14.75, from memory) at the working resolution;
+3. the strength factor of ``--walls`` invented wall sections in sequence (heights 3-10 m,
+   sand or clay foundations, some toe slopes and backslopes; the referred/marginal share of a
+   300-segment corridor), total and per wall (target: the whole share <= 60 s on this
+   2-core machine);
+4. the warm-start comparison behind the choice in solve.py: the wall's strength factor with
+   the previous LP's basis carried over and without.
+
+The walls are invented for the benchmark, not a design case.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+import os
+import time
+
+os.environ.setdefault("OMP_NUM_THREADS", "1")
+os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
+
+import numpy as np  # noqa: E402
+
+from screening.engine.mechanism import solve as solve_module  # noqa: E402
+from screening.engine.mechanism.reference_problems import footing_problem  # noqa: E402
+from screening.engine.mechanism.section import (  # noqa: E402
+    MechanismLayer,
+    MechanismSection,
+    SoilStrength,
+)
+from screening.engine.mechanism.solve import load_factor, strength_factor  # noqa: E402
+
+NC = 2.0 + math.pi
+NQ_30 = math.exp(math.pi * math.tan(math.radians(30))) * math.tan(math.radians(60)) ** 2
+NGAMMA_30_ROUGH = 14.75
+
+
+def invented_wall(
+    height_m: float,
+    strength_kn_m: float = 40.0,
+    clay_cu_kpa: float | None = None,
+    toe_slope_deg: float = 0.0,
+    backslope_deg: float = 0.0,
+) -> MechanismSection:
+    """Geogrid-like layers every 0.6 m, pullout 0.67 tan(phi) x 0.8 x 2 x sigma_v."""
+    fstar = 0.67 * math.tan(math.radians(34.0))
+    levels = np.arange(0.3, height_m, 0.6)
+    layers = tuple(
+        MechanismLayer(
+            float(y), strength_kn_m, fstar * 0.8 * 2.0 * 20.0 * (height_m - y), strength_kn_m
+        )
+        for y in levels
+    )
+    embed = max(0.6, height_m / (7.0 if toe_slope_deg else 20.0))
+    found = (
+        SoilStrength(18.0, 0.0, 0.0, clay_cu_kpa) if clay_cu_kpa else SoilStrength(19.0, 0.0, 32.0)
+    )
+    return MechanismSection(
+        design_height_m=height_m,
+        embedment_m=embed,
+        length_m=round(0.7 * height_m + 0.05, 1),
+        foundation=found,
+        reinforced=SoilStrength(20.0, 0.0, 34.0),
+        retained=SoilStrength(19.0, 0.0, 30.0),
+        layers=layers,
+        backslope_deg=backslope_deg,
+        toe_slope_deg=toe_slope_deg,
+        toe_slope_fall_m=height_m if toe_slope_deg else 0.0,
+        dead_surcharge_kpa=5.0,
+        live_surcharge_kpa=12.0,
+    )
+
+
+def invented_walls(n: int, seed: int = 11) -> list[MechanismSection]:
+    rng = np.random.default_rng(seed)
+    walls = []
+    for _ in range(n):
+        walls.append(
+            invented_wall(
+                float(np.round(rng.uniform(3.0, 10.0), 1)),
+                strength_kn_m=float(rng.choice([30.0, 45.0, 60.0])),
+                clay_cu_kpa=float(rng.uniform(40.0, 90.0)) if rng.random() < 0.25 else None,
+                toe_slope_deg=26.57 if rng.random() < 0.2 else 0.0,
+                backslope_deg=18.43 if rng.random() < 0.2 else 0.0,
+            )
+        )
+    return walls
+
+
+def line(label: str, r, ref: float | None = None, scale: float = 1.0) -> str:
+    value = scale * r.factor
+    err = f"  error {100 * (value / ref - 1):+6.2f} %" if ref else ""
+    return (
+        f"{label:<34} {value:9.4f}{err}  nodes {r.nodes:4d}  lines {r.candidate_lines:6d}"
+        f"  used {r.lines_used:5d}  LPs {r.lp_solves:2d}  {r.seconds:6.3f} s"
+    )
+
+
+def main() -> None:
+    ap = argparse.ArgumentParser()
+    ap.add_argument("--nodes", type=int, default=350)
+    ap.add_argument("--walls", type=int, default=30)
+    ap.add_argument("--quick", action="store_true", help="skip the convergence table")
+    args = ap.parse_args()
+    load_factor(footing_problem(), nodes=60)  # imports and first HiGHS instance
+    print("mechanism check (DLO): every factor is an upper bound, on the unsafe side\n")
+    print("1. one factor")
+    print(line("Prandtl N_c (load factor)", load_factor(footing_problem(), nodes=args.nodes), NC))
+    wall = invented_wall(6.0)
+    print(line("6 m wall (strength factor)", strength_factor(wall, nodes=args.nodes)))
+    if not args.quick:
+        print("\n2. convergence")
+        for n in (150, 200, 300, 400, 600):
+            print(line(f"N_c at ~{n} nodes", load_factor(footing_problem(), nodes=n), NC))
+        nq = footing_problem(cohesion_kpa=0.0, friction_deg=30.0, surcharge_kpa=1.0)
+        ng = footing_problem(cohesion_kpa=0.0, friction_deg=30.0, unit_weight_kn_m3=1.0)
+        for n in (300, 420, 600):
+            print(line(f"N_q phi 30 at ~{n} nodes", load_factor(nq, nodes=n), NQ_30))
+        for n in (300, 400, 600):
+            r = load_factor(ng, nodes=n)
+            print(line(f"N_gamma phi 30 rough ~{n} nodes", r, NGAMMA_30_ROUGH, scale=2.0))
+        for n in (200, 300, 400):
+            print(line(f"6 m wall at ~{n} nodes", strength_factor(wall, nodes=n)))
+    print(f"\n3. {args.walls} wall sections in sequence (one core)")
+    t0 = time.perf_counter()
+    results = [strength_factor(w, nodes=args.nodes) for w in invented_walls(args.walls)]
+    total = time.perf_counter() - t0
+    times = np.array([r.seconds for r in results])
+    print(
+        f"total {total:6.2f} s, per wall mean {times.mean():.3f} s, max {times.max():.3f} s, "
+        f"nodes {min(r.nodes for r in results)}-{max(r.nodes for r in results)}, "
+        f"F {min(r.factor for r in results):.3f}-{max(r.factor for r in results):.3f}"
+    )
+    print("\n4. strength factor of the 6 m wall with and without the previous LP's basis")
+    print(line("lines only (as solve.py does)", strength_factor(wall, nodes=args.nodes)))
+    original = solve_module.solve_highs
+
+    def with_basis(cols, start, warm=None):
+        return original(cols, start, with_basis.basis)
+
+    with_basis.basis = None
+
+    def remember(cols, start, warm=None):
+        out = with_basis(cols, start)
+        with_basis.basis = out.basis
+        return out
+
+    solve_module.solve_highs = remember
+    try:
+        print(line("lines and last basis", strength_factor(wall, nodes=args.nodes)))
+    finally:
+        solve_module.solve_highs = original
+
+
+if __name__ == "__main__":
+    main()
