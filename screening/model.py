@@ -76,6 +76,9 @@ class Foundation:
     """Depth of the water table below the base of the wall, m (0 = at the base)."""
     rock: bool = False
     """True on rock: the eccentricity limit for rock applies."""
+    firm_depth_m: float | None = None
+    """Depth below the base of a firm stratum that no slip circle passes, m; None: no firm
+    layer known (circles then reach at most 2H below the base; on rock, none goes below it)."""
 
 
 # ------------------------------------------------------------------ reinforcement

@@ -79,6 +79,7 @@ RANGES: dict[str, Range] = {
     "plasticity_index": Range(0.0, 100.0, "%"),
     "undrained_strength_kpa": Range(0.0, 1000.0, "kPa", lo_open=True),
     "water_depth_m": Range(0.0, 1000.0, "m"),
+    "firm_depth_m": Range(0.0, 1000.0, "m"),
     # grades and families
     "coverage_ratio": Range(0.0, 1.0, lo_open=True),
     "ultimate_strength_kn_m": Range(0.0, 2000.0, "kN/m", lo_open=True),

@@ -86,6 +86,8 @@ def slip_input(ctx: ScreenContext, length_m: FloatArray) -> WallSlipInput:
         layer_mask=g.layer_mask,
         layer_rupture_kn_m=np.where(g.layer_mask, np.nan_to_num(rupture), 0.0),
         layer_pullout_kn_m2=np.where(g.layer_mask, np.nan_to_num(pullout), 0.0),
+        tangent=~a.inextensible,
+        firm_depth_m=np.where(a.found_rock, 0.0, a.found_firm_depth_m),
     )
 
 

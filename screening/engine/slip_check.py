@@ -13,7 +13,7 @@ from dataclasses import dataclass, fields, replace
 import numpy as np
 
 from screening.engine.result import CDR_CAP, BoolArray, FloatArray
-from screening.engine.slip_geometry import Circles, SlipLayers, make_slices
+from screening.engine.slip_geometry import Circles, make_slices
 from screening.engine.slip_search import (
     STANDARD,
     WARM,
@@ -133,7 +133,7 @@ def compound_check(
             if undrained:
                 section = replace(section, water_level_m=np.full(rows.size, -np.inf))
             soils = wall_soils(sub, f, undrained)
-            sub_layers = SlipLayers(*(getattr(layers, k.name)[rows] for k in fields(SlipLayers)))
+            sub_layers = _take(layers, rows)
             sub_kh = np.zeros(rows.size) if kh is None else np.asarray(kh, dtype=np.float64)[rows]
             found = _search_rows(sub, section, soils, sub_layers, density, sub_kh, warm, rows)
             label = f"{f.name}, {'short term (cu)' if undrained else 'long term'}"

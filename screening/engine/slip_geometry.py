@@ -48,6 +48,9 @@ class SlipSection:
     """Level y of the water table (negative: below the base), (n,); -inf for none."""
     surcharge_kpa: FloatArray
     """Uniform vertical load on the ground behind the face (x > 0), (n,)."""
+    floor_m: FloatArray | None = None
+    """Level y of the deepest point a circle may reach (a firm layer or the search's depth
+    limit; negative: below the base), (n,); None: no limit."""
 
     @property
     def n(self) -> int:
@@ -78,12 +81,15 @@ class SlipLayers:
     front_kn_m: FloatArray
     """Extra hold of the part in front of the circle besides its own pullout (facing
     connection), per metre run; 0 for a face with no structural facing."""
+    tangent: np.ndarray | None = None
+    """True where the layer's force acts along the circle (continuous extensible sheets:
+    lever arm R); False or None: horizontal (lever arm = vertical distance to the centre)."""
 
     @classmethod
     def none(cls, n: int) -> SlipLayers:
         """No reinforcement (unreinforced slopes, tests against slope benchmarks)."""
         z = np.zeros((n, 1))
-        return cls(z, np.zeros((n, 1), dtype=bool), z, z, z)
+        return cls(z, np.zeros((n, 1), dtype=bool), z, z, z, np.zeros((n, 1), dtype=bool))
 
 
 @dataclass(frozen=True)
@@ -175,6 +181,11 @@ def make_circles(
     valid = (
         (vx > 1e-6) & (yc >= np.maximum(ye, yn) - 1e-9) & under & np.isfinite(xc) & np.isfinite(yc)
     )
+    if section.floor_m is not None:
+        # The lowest point of the arc between its ends stays above the floor.
+        low_x = np.minimum(np.maximum(xc, x_exit_m), x_entry_m)
+        low_y = yc - np.sqrt(np.maximum(r**2 - (low_x - xc) ** 2, 0.0))
+        valid &= low_y >= section.floor_m[:, None] - 1e-6
     return Circles(x_exit_m, x_entry_m, ye, yn, xc, yc, r, valid)
 
 
@@ -254,7 +265,8 @@ def reinforcement_moment(section: SlipSection, layers: SlipLayers, circles: Circ
     (0 < x < L) and inside the sliding mass. Its force is the least of its design strength,
     the pullout of the part beyond the circle and the hold of the part in front (its pullout,
     plus the facing connection when the layer's face end is inside the mass); the force is horizontal, so its lever arm is the vertical
-    distance from the layer to the centre (METHOD section 6).
+    distance from the layer to the centre, or along the circle for continuous extensible
+    sheets (``layers.tangent``): lever arm R (METHOD section 6).
     """
     y = layers.level_m[:, None, :]
     xc = circles.centre_x_m[..., None]
@@ -279,4 +291,7 @@ def reinforcement_moment(section: SlipSection, layers: SlipLayers, circles: Circ
     facing = np.where(xc - s <= 0.0, layers.front_kn_m[:, None, :], 0.0)
     p = layers.pullout_kn_m2[:, None, :]
     force = np.minimum(layers.rupture_kn_m[:, None, :], np.minimum(p * beyond, p * front + facing))
-    return np.sum(np.where(cut, np.maximum(force, 0.0) * (yc - y), 0.0), axis=-1)
+    lever = yc - y
+    if layers.tangent is not None:
+        lever = np.where(layers.tangent[:, None, :], r, lever)
+    return np.sum(np.where(cut, np.maximum(force, 0.0) * lever, 0.0), axis=-1)

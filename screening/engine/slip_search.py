@@ -36,6 +36,9 @@ CHUNK_CIRCLES = 16_000
 """Segment-circles evaluated together (x slices each): bounds memory, keeps numpy busy."""
 COMPOUND, GLOBAL = 0, 1
 INVALID = -1
+INTERNAL = -2
+"""A circle that stays in the reinforced zone (and the embedment in front): internal
+stability, the tie-back checks' job, not a compound surface."""
 
 
 @dataclass(frozen=True)
@@ -180,7 +183,13 @@ def classify(section: SlipSection, circles: Circles) -> np.ndarray:
         return (inside >= 0) & (yc - np.sqrt(np.maximum(inside, 0)) <= 1e-9)
 
     under = below_base(np.zeros_like(length)) & below_base(length) & (circles.x_entry_m >= length)
-    return np.where(circles.valid, np.where(under, GLOBAL, COMPOUND), INVALID)
+    # Through unreinforced soil behind (entering the ground behind the reinforced zone) or
+    # below it (the arc dips under the base somewhere between the face and L).
+    behind = circles.x_entry_m >= length - 1e-9
+    low_x = np.minimum(np.maximum(xc, 0.0), np.minimum(length, circles.x_entry_m))
+    dips = yc - np.sqrt(np.maximum(r2 - (low_x - xc) ** 2, 0.0)) < -1e-6
+    family = np.where(under, GLOBAL, np.where(behind | dips, COMPOUND, INTERNAL))
+    return np.where(circles.valid, family, INVALID)
 
 
 def evaluate(
@@ -228,9 +237,10 @@ def _evaluate_params(section, soils, layers, params, density, kh):
         p = params[:, start : start + step]
         circles = make_circles(section, p[..., 0], p[..., 1], p[..., 2])
         f, ok = evaluate(section, soils, layers, circles, density.slices, kh)
-        out_f.append(f)
+        cls = classify(section, circles)
+        out_f.append(np.where(cls >= 0, f, np.inf))  # internal circles are not searched
         out_ok.append(ok)
-        out_cls.append(classify(section, circles))
+        out_cls.append(cls)
         out_geo.append(np.stack([circles.centre_x_m, circles.centre_y_m, circles.radius_m], -1))
     cat = np.concatenate
     return cat(out_f, 1), cat(out_ok, 1), cat(out_cls, 1), cat(out_geo, 1)

@@ -64,6 +64,10 @@ class WallSlipInput:
     """Nominal pullout resistance per metre of embedded length, per metre run, (n, m)."""
     layer_front_kn_m: FloatArray | None = None
     """Facing hold of the front end, (n, m); None: as strong as the layer [cp]."""
+    tangent: BoolArray | None = None
+    """(n,) True for continuous extensible sheets (geosynthetics): force along the circle."""
+    firm_depth_m: FloatArray | None = None
+    """(n,) depth of a firm layer below the base that no circle passes (inf: none)."""
 
     @property
     def n(self) -> int:
@@ -115,7 +119,18 @@ def wall_section(inp: WallSlipInput, f: Factors) -> SlipSection:
         length_m=length,
         water_level_m=-inp.found_water_depth_m,
         surcharge_kpa=f.permanent * inp.surcharge_kpa + f.live * inp.live_kpa,
+        floor_m=-search_depth_m(inp),
     )
+
+
+DEPTH_PER_HEIGHT = 2.0
+"""Deepest circle below the base, in design heights, when no firm layer is nearer [cp]."""
+
+
+def search_depth_m(inp: WallSlipInput) -> FloatArray:
+    """Depth below the base that circles may reach: the firm layer, at most 2H (n,)."""
+    firm = inp.firm_depth_m if inp.firm_depth_m is not None else np.full(inp.n, np.inf)
+    return np.minimum(firm, DEPTH_PER_HEIGHT * inp.height_m)
 
 
 def wall_soils(inp: WallSlipInput, f: Factors, undrained: bool) -> SlipSoils:
@@ -148,6 +163,9 @@ def wall_layers(inp: WallSlipInput) -> SlipLayers:
         rupture_kn_m=np.where(inp.layer_mask, inp.layer_rupture_kn_m, 0.0),
         pullout_kn_m2=np.where(inp.layer_mask, inp.layer_pullout_kn_m2, 0.0),
         front_kn_m=np.where(inp.layer_mask, front, 0.0),
+        tangent=np.zeros(inp.layer_mask.shape, dtype=bool)
+        if inp.tangent is None
+        else np.broadcast_to(inp.tangent[:, None], inp.layer_mask.shape).copy(),
     )
 
 
