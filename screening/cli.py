@@ -220,13 +220,26 @@ def stale_results(path: Path, stored, result) -> list[str]:
     return out
 
 
+def _margin_words(result, i: int, cdr_text) -> str:
+    """The check and CDR a reader should look at first: the failing one when a check fails,
+    else the least margin among the checks that did not set the reinforcement."""
+    if result.verdict[i] == "refer" and result.governing[i] not in result.checks:
+        return result.governing[i]  # outside the scope of screening: the rule's key
+    if result.min_cdr[i] < 1.0 - 1e-9:
+        return f"{result.governing[i]} {cdr_text(result.min_cdr[i])}"
+    if not result.margin_check[i]:
+        return "-"
+    return f"{result.margin_check[i]} {cdr_text(result.margin_cdr[i])}"
+
+
 def _table(corridor, result) -> str:
     """A plain-text table of the screen, readable without colour."""
+    from screening.engine.result import cdr_text
     from screening.jsonout import CAUTION
 
     head = (
-        f"{'segment':<10} {'chainage m':>17} {'H m':>6} {'L m':>6} {'L/H':>5} "
-        f"{'governing':<16} {'CDR':>6}  verdict"
+        f"{'segment':<10} {'chainage m':>17} {'Hd m':>6} {'L m':>6} {'L/H':>5} "
+        f"{'L set by':<15} {'least margin':<20}  verdict"
     )
     lines = [
         f"{corridor.name}  —  factor set {result.factor_set}, engine {result.engine_version}",
@@ -236,13 +249,19 @@ def _table(corridor, result) -> str:
     for i, seg in enumerate(corridor.segments):
         v = result.verdict[i]
         ch = f"{seg.chainage_start_m:8.1f}–{seg.chainage_end_m:<8.1f}"
+        margin = _margin_words(result, i, cdr_text)
         lines.append(
             f"{seg.id:<10} {ch:>17} {result.design_height_m[i]:6.2f} {result.length_m[i]:6.1f} "
-            f"{result.length_ratio[i]:5.2f} {result.governing[i]:<16} "
-            f"{result.min_cdr[i]:6.2f}  {VERDICT_MARK[v]} {v}"
+            f"{result.length_ratio[i]:5.2f} {result.length_set_by[i]:<15} {margin:<20}  "
+            f"{VERDICT_MARK[v]} {v}"
         )
     counts = result.counts()
     lines.append("")
+    lines.append(
+        "Hd: design height (exposed + embedment). L set by: the check whose shortest passing "
+        "length is L (its CDR is 1.00 by construction) or the rule that sets it. Least margin: "
+        "the smallest CDR of the other checks (for a referred segment, the failing check)."
+    )
     lines.append(
         f"{len(result)} segments: {counts['clear']} clear, {counts['marginal']} marginal, "
         f"{counts['refer']} refer (full design needed)"

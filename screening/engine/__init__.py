@@ -27,6 +27,7 @@ from screening.engine.corrosion import steel_loss_per_side_mm
 from screening.engine.internal import Grades, InternalSetup, prepare, pullout_layers
 from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
 from screening.engine.sizing import evaluate, size_length
+from screening.engine.spacing import closer_spacing
 from screening.engine.verdict import SIZING_CHECKS, decide
 from screening.model import CHECKS, Corridor, FactorSet
 
@@ -92,11 +93,22 @@ def screen_iter(
 
 
 def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> CorridorResult:
-    """The engine proper, on inputs already turned into arrays."""
+    """The engine proper, on inputs already turned into arrays: the screen, then a closer
+    spacing on the segments whose layers are too weak at any length and grade."""
+    result = _screen_once(a, extras)
+    return closer_spacing(a, result, lambda sub, words: _screen_once(sub, extras, words))
+
+
+def _screen_once(
+    a: SegmentArrays, extras: Sequence[ExtraCheck] = (), spacing_words: list[str] | None = None
+) -> CorridorResult:
+    """Size, check and judge every segment at its given spacing."""
     ctx = build_context(a)
     setup = prepare(ctx)
     ctx = replace(ctx, internal=setup)
     sizing = size_length(ctx, setup, extras)
+    if sizing.grade_boost.any():
+        ctx = replace(ctx, grade_boost=sizing.grade_boost)
     checks, grades = evaluate(ctx, setup, extras, sizing.length_m)
     unchecked = {name for name in CHECKS if not a.cases.uses(name).any()}
     layer_grade = np.where(setup.mask, grades.index, -1)
@@ -107,7 +119,13 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
     ).any(axis=1)
     sizing_names = SIZING_CHECKS + tuple(c.name for c in extras if c.sizes_length)
     outcome = decide(
-        ctx, sizing, checks, unchecked, heaviest_grade=heaviest, sizing_names=sizing_names
+        ctx,
+        sizing,
+        checks,
+        unchecked,
+        heaviest_grade=heaviest,
+        sizing_names=sizing_names,
+        closer_spacing=spacing_words,
     )
     extra_arrays: dict[str, object] = {
         "embedment_ratio": ctx.geom.embedment_ratio,
@@ -136,6 +154,10 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
         rule_length_m=ctx.geom.rule_length_m,
         governing=outcome.governing,
         min_cdr=np.clip(outcome.min_cdr, 0.0, CDR_CAP),
+        length_set_by=list(sizing.set_by),
+        margin_check=outcome.margin_check,
+        margin_cdr=np.clip(outcome.margin_cdr, 0.0, CDR_CAP),
+        grade_boost=sizing.grade_boost,
         traffic_kpa=ctx.live_kpa,
         checks={name: _check_arrays(a, v, name in unchecked) for name, v in checks.items()},
         layers=_layer_arrays(ctx, setup, grades, sizing.length_m),

@@ -329,7 +329,10 @@ def build_arrays(corridor: Corridor, factor_set: FactorSet | None = None) -> Seg
         found_undrained_kpa=f([np.nan if v is None else v for v in cu]),
         found_water_depth_m=f([s.foundation.water_depth_m for s in segs]),
         found_firm_depth_m=f(
-            [np.inf if s.foundation.firm_depth_m is None else s.foundation.firm_depth_m for s in segs]
+            [
+                np.inf if s.foundation.firm_depth_m is None else s.foundation.firm_depth_m
+                for s in segs
+            ]
         ),
         found_rock=rock,
         material=material,

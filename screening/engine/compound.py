@@ -100,12 +100,11 @@ LENGTHS = 16
 class _Memo:
     """Results of the slip search per segment and length within one screen.
 
-    Sizing asks for every check at several trial lengths, on all segments and then on the
-    few that fail (a context with those rows only); rows are matched by segment id, so both
-    share one memo. The search runs once per segment and length; a segment that already
-    passed at a shorter length is answered with that result (compound stability does not
-    fall as the reinforcement gets longer), so most segments are searched once, at the
-    length the built-in checks need; the others start from the circles already found.
+    Sizing asks for every check at several trial lengths (and grade steps), on all segments
+    and then on the few that fail (a context with those rows only); rows are matched by
+    segment id, so both share one memo. The search runs once per segment, length and grade
+    step; most segments are searched once, at the length the built-in checks need; the
+    others start from the circles already found.
     """
 
     def __init__(self, ids: list[str]) -> None:
@@ -115,7 +114,7 @@ class _Memo:
         n = len(ids)
         # Results at up to LENGTHS lengths per segment (oldest overwritten first).
         self.length = np.full((n, LENGTHS), np.nan)
-        self.cdr = np.full((n, LENGTHS), -np.inf)
+        self.boost = np.zeros((n, LENGTHS), dtype=np.int64)
         self.slot = np.zeros(n, dtype=np.int64)
         self.params = np.full((n, LIBRARY, 3), np.nan)
         self.values: dict[str, np.ndarray] = {}
@@ -134,14 +133,12 @@ class _Memo:
         self, ctx: ScreenContext, length_m: FloatArray, rows: np.ndarray, runner
     ) -> dict[str, np.ndarray]:
         length = np.asarray(length_m, dtype=np.float64)
-        known = self.length[rows]  # (r, LENGTHS)
-        same = np.abs(known - length[:, None]) < 1e-9
-        # A length already searched, or a shorter one that passed (the answer stands).
-        passed = (known < length[:, None]) & (self.cdr[rows] >= 1.0)
-        score = np.where(same, 2, np.where(passed, 1, 0))
-        use = np.argmax(score + np.where(passed, known, 0.0) * 1e-6, axis=1)
-        hit = np.take_along_axis(score, use[:, None], 1)[:, 0] > 0
-        todo = np.flatnonzero(~hit)
+        boost = ctx.boost
+        same = (np.abs(self.length[rows] - length[:, None]) < 1e-9) & (
+            self.boost[rows] == boost[:, None]
+        )  # (r, LENGTHS): this length and grade step already searched
+        use = np.argmax(same, axis=1)
+        todo = np.flatnonzero(~same.any(axis=1))
         if todo.size:
             target = rows[todo]
             found = runner(ctx, length, todo, self.params[target])
@@ -160,7 +157,7 @@ class _Memo:
                     )
                 self.values[key][target, slot] = value
             self.length[target, slot] = length[todo]
-            self.cdr[target, slot] = np.minimum(fresh["compound_cdr"], fresh["global_cdr"])
+            self.boost[target, slot] = boost[todo]
             self.slot[target] = (slot + 1) % LENGTHS
             use[todo] = slot
         return {key: value[rows, use] for key, value in self.values.items()}

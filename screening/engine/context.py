@@ -50,6 +50,14 @@ class ScreenContext:
     """Design cu of the foundation, (n, c); NaN when drained."""
     internal: InternalSetup | None = None
     """Tensions, grades and pullout terms (set by the screen before any check runs)."""
+    grade_boost: IntArray | None = None
+    """Grade steps added to every layer above the lightest that passes internally, (n,);
+    None: none (sizing raises it where no length passes compound stability)."""
+
+    @property
+    def boost(self) -> IntArray:
+        """``grade_boost`` with None as zeros, (n,)."""
+        return np.zeros(self.n, dtype=np.int64) if self.grade_boost is None else self.grade_boost
 
     @property
     def n(self) -> int:

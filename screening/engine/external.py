@@ -166,9 +166,25 @@ def bearing(
     return CheckValues(out.demand, out.capacity, out.cdr, out.case, words)
 
 
+EXTERNAL_NAMES = ("sliding", "eccentricity", "bearing")
+
+
+def external_values(ctx: ScreenContext, length_m: FloatArray) -> tuple[FloatArray, np.ndarray]:
+    """Smallest CDR of sliding, eccentricity and bearing at L and the name of that check,
+    (n,) each (for the length search)."""
+    f = forces(ctx, length_m)
+    table = np.stack(
+        [
+            sliding(ctx, length_m, f, detail=False).cdr,
+            eccentricity(ctx, length_m, f, detail=False).cdr,
+            bearing(ctx, length_m, f, detail=False).cdr,
+        ],
+        axis=1,
+    )
+    low = np.argmin(table, axis=1)
+    return table[np.arange(ctx.n), low], np.array(EXTERNAL_NAMES, dtype=object)[low]
+
+
 def external_cdr(ctx: ScreenContext, length_m: FloatArray) -> FloatArray:
     """Smallest CDR of sliding, eccentricity and bearing at L, (n,) (for the length search)."""
-    f = forces(ctx, length_m)
-    out = sliding(ctx, length_m, f, detail=False).cdr
-    out = np.minimum(out, eccentricity(ctx, length_m, f, detail=False).cdr)
-    return np.minimum(out, bearing(ctx, length_m, f, detail=False).cdr)
+    return external_values(ctx, length_m)[0]

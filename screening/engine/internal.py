@@ -209,6 +209,8 @@ def choose_grades(ctx: ScreenContext, s: InternalSetup, length_m: FloatArray) ->
     ok = s.rupture_ok & (s.grade_coverage[:, None, :] >= need[:, :, None] * (1 - 1e-12))
     found = ok.any(axis=2)
     index = np.where(found, np.argmax(ok, axis=2), s.best.index)
+    if ctx.grade_boost is not None:
+        index = np.minimum(index + ctx.grade_boost[:, None], (ctx.a.grade_count - 1)[:, None])
     return _grades(s.grade_capacity, s.grade_coverage, index, s.rupture_ok.any(axis=2), s.mask)
 
 
@@ -230,15 +232,12 @@ def _layer_words(ctx: ScreenContext, layer: IntArray) -> list[str]:
 def pullout_layers(
     ctx: ScreenContext, s: InternalSetup, grades: Grades, length_m: FloatArray
 ) -> tuple[FloatArray, FloatArray]:
-    """(factored capacity, CDR) per case and layer at L with ``grades``, (n, c, m) each.
-
-    The CDR is also capped by Le / Le_min, so a layer anchored less than the minimum length
-    (Rules.min_anchorage_m) fails pullout whatever its friction.
-    """
+    """(factored capacity, CDR = capacity / T_max) per case and layer at L with ``grades``,
+    (n, c, m) each. The minimum anchorage Le >= Rules.min_anchorage_m is a detailing rule
+    that sizing meets (:func:`screening.engine.sizing.anchorage_minimum_m`), not a margin."""
     le = length_m[:, None] - s.active_length
     capacity = s.pullout_unit * (grades.coverage * np.maximum(le, 0.0))[:, None, :]
-    anchorage = np.clip(le / ctx.a.rules.min_anchorage_m, 0.0, CDR_CAP)[:, None, :]
-    return capacity, np.minimum(ratio(capacity, s.tension), anchorage)
+    return capacity, ratio(capacity, s.tension)
 
 
 def pullout(

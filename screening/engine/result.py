@@ -20,6 +20,15 @@ BoolArray = npt.NDArray[np.bool_]
 CDR_CAP = 99.0
 """CDRs are clipped to [0, CDR_CAP] so every reported ratio is finite."""
 
+
+def cdr_text(value: float, digits: int = 2) -> str:
+    """A CDR as text, cut (never rounded up) to ``digits`` decimals: 0.996 reads 0.99, so a
+    failing value never shows as 1.00 and a value under a threshold never reaches it."""
+    scale = 10**digits
+    cut = np.floor(float(value) * scale + 1e-9) / scale
+    return f"{cut:.{digits}f}"
+
+
 UNITS = {
     "sliding": "kN/m",
     "eccentricity": "m",
@@ -107,6 +116,14 @@ class SegmentResult:
     governing: str
     """Check with the smallest CDR (or the scope reason's key when referred out of scope)."""
     min_cdr: float
+    length_set_by: str
+    """What set L: a check (the shortest length it passes), "rule of thumb" or "anchorage rule"."""
+    margin_check: str
+    """The check with the least margin among those that did not set the reinforcement."""
+    margin_cdr: float
+    """Its CDR (inf when there is none)."""
+    grade_boost: int
+    """Grade steps above the lightest that passes internally, added for compound stability."""
     checks: dict[str, CheckResult]
     layers: tuple[LayerResult, ...]
     traffic_kpa: float
@@ -130,6 +147,11 @@ class CorridorResult:
     rule_length_m: FloatArray
     governing: list[str]
     min_cdr: FloatArray
+    length_set_by: list[str]
+    """What set L per segment (see SegmentResult.length_set_by)."""
+    margin_check: list[str]
+    margin_cdr: FloatArray
+    grade_boost: IntArray
     traffic_kpa: FloatArray
     checks: dict[str, CheckArrays]
     layers: LayerArrays

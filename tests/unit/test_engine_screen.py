@@ -142,7 +142,7 @@ def test_a_failing_check_refers_with_numbers() -> None:
     reason = [x for x in r.reasons[0] if x.startswith("sliding CDR")]
     length, h = r.length_m[0], r.design_height_m[0]
     assert length <= 1.2 * h and length > 1.2 * h - 0.1
-    assert reason and f"< 1.0 at L = {length:.1f} m ({length / h:.2f}H)" in reason[0]
+    assert reason and f"< 1.00 at L = {length:.1f} m ({length / h:.2f}H)" in reason[0]
 
 
 def test_extra_check_hook_sizes_the_length() -> None:
