@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 from typing import Any
 
-from screening.engine.result import CorridorResult, SegmentResult
+from screening.engine.result import CorridorResult, SegmentResult, cdr_cut
 from screening.model import SCHEMA, Corridor
 
 
@@ -17,13 +17,19 @@ def _num(x: float, digits: int = 4) -> float | None:
     return round(x, digits)
 
 
+def _cdr(x: float) -> float | None:
+    """A CDR for JSON: cut to 3 decimals, never rounded up past a threshold."""
+    x = float(x)
+    return cdr_cut(x, 3) if math.isfinite(x) else None
+
+
 def segment_json(seg: SegmentResult) -> dict[str, Any]:
     """One segment's entry: inputs that matter to a reader, the outcome and every check."""
     checks = {
         name: {
             "demand": _num(c.demand),
             "capacity": _num(c.capacity),
-            "cdr": _num(c.cdr, 3),
+            "cdr": _cdr(c.cdr),
             "unit": c.unit,
             "case": c.case,
             "where": c.detail,
@@ -40,10 +46,10 @@ def segment_json(seg: SegmentResult) -> dict[str, Any]:
         "length_ratio": _num(seg.length_ratio, 3),
         "rule_length_m": _num(seg.rule_length_m, 2),
         "governing": seg.governing,
-        "min_cdr": _num(seg.min_cdr, 3),
+        "min_cdr": _cdr(seg.min_cdr),
         "length_set_by": seg.length_set_by,
         "margin_check": seg.margin_check,
-        "margin_cdr": _num(seg.margin_cdr, 3),
+        "margin_cdr": _cdr(seg.margin_cdr),
         "grade_steps_added": seg.grade_boost,
         "traffic_kpa": _num(seg.traffic_kpa, 2),
         "reasons": list(seg.reasons),

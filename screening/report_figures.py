@@ -19,7 +19,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from screening.engine.result import CorridorResult
+from screening.engine.result import CorridorResult, cdr_text
 from screening.model import Corridor, Segment
 from screening.units import Display
 
@@ -277,7 +277,7 @@ def cross_section_png(
     cdr = float(result.min_cdr[i])
     ax.set_title(
         f"{seg.id}: {result.verdict[i]}; H = {display.format(big_h, 'm')}, "
-        f"L = {display.format(length, 'm')}, governing {result.governing[i]} (CDR {cdr:.2f})",
+        f"L = {display.format(length, 'm')}, governing {result.governing[i]} (CDR {cdr_text(cdr)})",
         loc="left",
         fontsize=9,
     )

@@ -9,7 +9,7 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 
-from screening.engine.result import UNITS
+from screening.engine.result import UNITS, cdr_text
 from screening.model import VERDICTS
 from screening.report import ReportData
 
@@ -127,7 +127,7 @@ def segments(data: ReportData) -> Table:
                 f"{float(r.length_ratio[i]):.2f}",
                 _num(data, float(r.rule_length_m[i]), "m"),
                 r.governing[i],
-                f"{float(r.min_cdr[i]):.2f}",
+                cdr_text(r.min_cdr[i]),
                 r.verdict[i],
             ]
         )
@@ -152,7 +152,7 @@ def cdr_overview(data: ReportData) -> Table:
     names = checks_present(data)
     r = data.result
     rows = [
-        [r.ids[i], *(f"{float(r.checks[n].cdr[i]):.2f}" for n in names), r.verdict[i]]
+        [r.ids[i], *(cdr_text(r.checks[n].cdr[i]) for n in names), r.verdict[i]]
         for i in range(len(r))
     ]
     return Table(
@@ -175,7 +175,7 @@ def check_tables(data: ReportData) -> list[Table]:
                 r.ids[i],
                 _num(data, float(ch.demand[i]), unit),
                 _num(data, float(ch.capacity[i]), unit),
-                f"{float(ch.cdr[i]):.2f}",
+                cdr_text(ch.cdr[i]),
                 ch.case[i],
                 ch.detail[i],
             ]
@@ -293,7 +293,7 @@ def sensitivity(data: ReportData) -> list[Table]:
         out.append(
             Table(
                 f"Sensitivity of {r.ids[i]} ({r.verdict[i]}, L {_num(data, float(r.length_m[i]), 'm')} "
-                f"{_u(data, 'm')}, min CDR {float(r.min_cdr[i]):.2f})",
+                f"{_u(data, 'm')}, min CDR {cdr_text(r.min_cdr[i])})",
                 [
                     "rank",
                     "input",

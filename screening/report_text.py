@@ -6,6 +6,7 @@ import csv
 import io
 
 from screening import report_tables as tables
+from screening.engine.result import cdr_text
 from screening.report import CAUTION, ReportData
 from screening.report_assumptions import assumptions
 from screening.report_tables import Table
@@ -131,9 +132,9 @@ def render_csv(data: ReportData) -> str:
             f"{float(r.length_ratio[i]):.3f}",
             f"{d.value(float(r.rule_length_m[i]), 'm'):.3f}",
             r.governing[i],
-            f"{float(r.min_cdr[i]):.3f}",
+            cdr_text(r.min_cdr[i], 3),
             r.verdict[i],
-            *(f"{float(r.checks[n].cdr[i]):.3f}" for n in names),
+            *(cdr_text(r.checks[n].cdr[i], 3) for n in names),
         ]
         if q is not None:
             sq = q.segments[i]

@@ -25,6 +25,7 @@ from pathlib import Path
 from typing import Any
 
 from screening import model
+from screening.engine.result import cdr_cut
 from screening.errors import InputError
 from screening.presets import Presets, load_presets, parse_toml, read_text
 from screening.schema import (
@@ -342,7 +343,8 @@ def _segment_table(
             "governing": result.governing[row],
             "length_m": round(float(result.length_m[row]), 2),
             "length_ratio": round(float(result.length_ratio[row]), 3),
-            "min_cdr": round(float(result.min_cdr[row]), 3),
+            "min_cdr": cdr_cut(float(result.min_cdr[row]), 3),
+            "length_set_by": result.length_set_by[row],
             "reasons": list(result.reasons[row]),
         }
     return out

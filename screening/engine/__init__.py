@@ -169,6 +169,8 @@ def _screen_once(
 def _check_arrays(a: SegmentArrays, v: CheckValues, unchecked: bool) -> CheckArrays:
     names = np.array([*a.cases.names, ""], dtype=object)
     case = names[np.where(v.case < 0, len(names) - 1, v.case)].tolist()
+    if v.case_name is not None:
+        case = [str(c) for c in v.case_name]
     if unchecked:
         detail = ["not checked by this factor set"] * a.n
     else:

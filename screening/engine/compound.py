@@ -262,7 +262,8 @@ def _family_values(family: str):
             )
         stuck = np.flatnonzero(~converged)
         detail[stuck] = "Bishop iteration did not converge on the critical circle: full design"
-        return v[f"{family}_demand"], v[f"{family}_capacity"], cdr, detail.tolist()
+        case = [c or "" for c in v[f"{family}_case"].tolist()]
+        return v[f"{family}_demand"], v[f"{family}_capacity"], cdr, detail.tolist(), case
 
     return evaluate
 

@@ -126,6 +126,9 @@ class CheckValues:
     """Index of the governing load case; -1 where no case lists the check."""
     detail: list[str] | None = None
     """Words on where it governs, per segment (None: none to give)."""
+    case_name: list[str] | None = None
+    """Name of the governing case per segment, for checks whose cases are not the factor
+    set's load cases (slip circles: Service I; seismic: Extreme Event I); None: use ``case``."""
 
 
 def ratio(capacity: FloatArray, demand: FloatArray) -> FloatArray:
@@ -153,7 +156,7 @@ def worst_case(
 
 
 ExtraEvaluate = Callable[[ScreenContext, FloatArray], tuple]
-"""(ctx, L) -> (demand, capacity, cdr) or (demand, capacity, cdr, detail), each ``(n,)``."""
+"""(ctx, L) -> (demand, capacity, cdr[, detail[, case name]]), each ``(n,)``."""
 
 
 @dataclass(frozen=True)
@@ -174,5 +177,7 @@ class ExtraCheck:
         out = self.evaluate(ctx, length_m)
         demand, capacity, cdr = (np.asarray(v, dtype=np.float64) for v in out[:3])
         detail = list(out[3]) if len(out) > 3 else None
+        case_name = list(out[4]) if len(out) > 4 else None
         cdr = np.clip(np.nan_to_num(cdr, nan=0.0, posinf=CDR_CAP), 0.0, CDR_CAP)
-        return CheckValues(demand, capacity, cdr, np.full(ctx.n, -1, dtype=np.int64), detail)
+        case = np.full(ctx.n, -1, dtype=np.int64)
+        return CheckValues(demand, capacity, cdr, case, detail, case_name)

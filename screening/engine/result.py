@@ -21,12 +21,16 @@ CDR_CAP = 99.0
 """CDRs are clipped to [0, CDR_CAP] so every reported ratio is finite."""
 
 
+def cdr_cut(value: float, digits: int = 3) -> float:
+    """A CDR cut (never rounded up) to ``digits`` decimals, for files and JSON."""
+    scale = 10**digits
+    return float(np.floor(float(value) * scale + 1e-9) / scale)
+
+
 def cdr_text(value: float, digits: int = 2) -> str:
     """A CDR as text, cut (never rounded up) to ``digits`` decimals: 0.996 reads 0.99, so a
     failing value never shows as 1.00 and a value under a threshold never reaches it."""
-    scale = 10**digits
-    cut = np.floor(float(value) * scale + 1e-9) / scale
-    return f"{cut:.{digits}f}"
+    return f"{cdr_cut(value, digits):.{digits}f}"
 
 
 UNITS = {

@@ -345,7 +345,8 @@ def evaluate_seismic(ctx: ScreenContext, length_m: FloatArray) -> tuple:
             )
         ]
         detail[invalid] = np.array(words, dtype=object)
-    return demand, capacity, cdr, detail.tolist()
+    case = np.where(kh0 > 0, "Extreme Event I", "").tolist()
+    return demand, capacity, cdr, detail.tolist(), case
 
 
 def report_seismic(ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
