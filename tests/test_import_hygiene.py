@@ -11,7 +11,7 @@ import pytest
 
 
 @pytest.mark.parametrize(
-    "module", ["screening.engine", "screening.model", "screening.store", "screening.presets"]
+    "module", ["screening.engine", "screening.model", "screening.store", "screening.model.presets"]
 )
 def test_headless_modules_do_not_import_textual(module: str) -> None:
     code = f"import sys, {module}; print('textual' in sys.modules)"

@@ -22,7 +22,7 @@ PRESET_FILES = (
 
 
 def test_presets_found_from_checkout() -> None:
-    from screening.presets import presets_root
+    from screening.model.presets import presets_root
 
     root = presets_root()
     for name in PRESET_FILES:
@@ -54,7 +54,7 @@ def test_presets_found_from_wheel_contents(wheel: Path, tmp_path: Path) -> None:
     zipfile.ZipFile(wheel).extractall(tmp_path)
     code = (
         "import sys; sys.path.insert(0, sys.argv[1]);"
-        "from screening.presets import presets_root, load_presets;"
+        "from screening.model.presets import presets_root, load_presets;"
         "r = presets_root(); p = load_presets();"
         "print(str(r).startswith(sys.argv[1]), len(p.fills) >= 5)"
     )

@@ -14,14 +14,14 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from screening.engine.arrays import CaseArrays, SegmentArrays
+from screening.engine.checks.pressure import coulomb_ka, design_friction_deg, rankine_ka
 from screening.engine.geometry import Geometry, build_geometry
 from screening.engine.loads import traffic_kpa
-from screening.engine.pressure import coulomb_ka, design_friction_deg, rankine_ka
 from screening.engine.result import CDR_CAP, FloatArray, IntArray
 from screening.model import Rules
 
 if TYPE_CHECKING:
-    from screening.engine.internal import InternalSetup
+    from screening.engine.checks.internal import InternalSetup
 
 
 @dataclass(frozen=True)

@@ -19,9 +19,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from screening.engine import external, internal
+from screening.engine.checks import external, internal
+from screening.engine.checks.internal import InternalSetup
 from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, take_rows
-from screening.engine.internal import InternalSetup
 from screening.engine.result import BoolArray, FloatArray, IntArray
 
 PASS_TOL = 1e-9

@@ -31,9 +31,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from screening.engine.checks.seismic import mo_invalid
 from screening.engine.context import CheckValues, ScreenContext
 from screening.engine.result import BoolArray, FloatArray
-from screening.engine.seismic import mo_invalid
 from screening.engine.sizing import Sizing
 
 
