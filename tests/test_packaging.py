@@ -49,6 +49,15 @@ def test_wheel_carries_presets_and_stylesheet(wheel: Path) -> None:
     assert any(n.startswith("screening/tui/") and n.endswith(".tcss") for n in names)
 
 
+def test_wheel_carries_every_package(wheel: Path) -> None:
+    """Packages are found, not listed (setup.py): a new folder under screening/ ships as is."""
+    names = set(zipfile.ZipFile(wheel).namelist())
+    packages = sorted((ROOT / "screening").rglob("__init__.py"))
+    assert len(packages) >= 10
+    for init in packages:
+        assert init.relative_to(ROOT).as_posix() in names, init
+
+
 def test_presets_found_from_wheel_contents(wheel: Path, tmp_path: Path) -> None:
     """Unpack the wheel (no install needed) and import from there, away from the checkout."""
     zipfile.ZipFile(wheel).extractall(tmp_path)

@@ -22,9 +22,16 @@ import numpy as np
 from screening import __version__
 from screening.engine.arrays import SegmentArrays, build_arrays
 from screening.engine.checks.corrosion import steel_loss_per_side_mm
-from screening.engine.checks.internal import Grades, InternalSetup, prepare, pullout_layers
+from screening.engine.checks.internal import prepare, pullout_layers
 from screening.engine.combine import concat, merge
-from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, build_context
+from screening.engine.context import (
+    CheckValues,
+    ExtraCheck,
+    Grades,
+    InternalSetup,
+    ScreenContext,
+    build_context,
+)
 from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
 from screening.engine.sizing import evaluate, size_length
 from screening.engine.verdict import SIZING_CHECKS, decide

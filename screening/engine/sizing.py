@@ -20,8 +20,14 @@ from dataclasses import dataclass
 import numpy as np
 
 from screening.engine.checks import external, internal
-from screening.engine.checks.internal import InternalSetup
-from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, take_rows
+from screening.engine.context import (
+    CheckValues,
+    ExtraCheck,
+    Grades,
+    InternalSetup,
+    ScreenContext,
+    take_rows,
+)
 from screening.engine.result import BoolArray, FloatArray, IntArray
 
 PASS_TOL = 1e-9
@@ -108,7 +114,7 @@ def _bisect(
 
 def evaluate(
     ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraCheck], length_m: FloatArray
-) -> tuple[dict[str, CheckValues], internal.Grades]:
+) -> tuple[dict[str, CheckValues], Grades]:
     """Every check at L with its governing case, layer and words, and the grades chosen."""
     f = external.forces(ctx, length_m)
     grades = internal.choose_grades(ctx, s, length_m)

@@ -21,8 +21,6 @@ per grade.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 import numpy as np
 
 from screening.engine.arrays import GRID, STRIP, SegmentArrays
@@ -31,7 +29,7 @@ from screening.engine.checks.corrosion import (
     steel_loss_per_side_mm,
     strip_area_mm2_per_m,
 )
-from screening.engine.context import CheckValues, ScreenContext, ratio
+from screening.engine.context import CheckValues, Grades, InternalSetup, ScreenContext, ratio
 from screening.engine.result import CDR_CAP, BoolArray, FloatArray, IntArray
 
 KR_DEPTH_M = 6.0
@@ -108,43 +106,6 @@ def grade_capacity_kn_m(a: SegmentArrays) -> tuple[FloatArray, FloatArray]:
     strip_rc = a.grade_elements_per_m * a.grade_width_mm / 1000
     rc = np.where(mat == STRIP, np.where(np.isnan(strip_rc), coverage, strip_rc), coverage)
     return capacity, rc
-
-
-@dataclass(frozen=True)
-class Grades:
-    """A grade per layer and what it gives, (n, m) each."""
-
-    index: IntArray
-    passes_rupture: BoolArray
-    """False where no grade of the family carries T_max (the heaviest is then used)."""
-    rupture_capacity: FloatArray
-    """Factored rupture capacity per metre run."""
-    coverage: FloatArray
-    """Rc used in pullout."""
-
-
-@dataclass(frozen=True)
-class InternalSetup:
-    """Everything internal that does not depend on L."""
-
-    tension: FloatArray
-    """Factored T_max, (n, c, m); 0 on padding."""
-    tension_design: FloatArray
-    """Largest T_max over the cases that check rupture, (n, m)."""
-    grade_capacity: FloatArray
-    """Factored rupture capacity of every grade, (n, g); -inf on padding."""
-    grade_coverage: FloatArray
-    """Rc of every grade, (n, g)."""
-    rupture_ok: BoolArray
-    """(n, m, g): the grade carries the layer's T_max."""
-    best: Grades
-    """Per layer, the grade with the largest Rc among those that carry T_max (the heaviest
-    when none does): the most pullout a layer can get, used by the length search."""
-    pullout_unit: FloatArray
-    """Factored pullout resistance per metre of Le and unit Rc, phi F* alpha sigma_v' C, (n, c, m)."""
-    active_length: FloatArray
-    """La, (n, m)."""
-    mask: BoolArray
 
 
 def _grades(s_capacity, s_coverage, index, passes, mask) -> Grades:
