@@ -196,6 +196,19 @@ def test_no_import_circles() -> None:
     assert cycle is None, "import circle: " + " -> ".join(cycle or [])
 
 
+def test_no_import_circles_between_folders() -> None:
+    """model <- profile, engine <- corridor <- store, report <- cli, tui (DEVELOPERS.md)."""
+    folders: dict[str, set[str]] = {}
+    for module, targets in import_graph().items():
+        here = ".".join(module.split(".")[:2])
+        folders.setdefault(here, set()).update(
+            there for t in targets if (there := ".".join(t.split(".")[:2])) != here
+        )
+    assert folders["screening.model"] <= {"screening"}
+    cycle = find_cycle(folders)
+    assert cycle is None, "import circle between folders: " + " -> ".join(cycle or [])
+
+
 def test_no_module_over_the_line_limit() -> None:
     over = {
         name: n

@@ -1,6 +1,6 @@
 """Properties of the split of a profile into segments, over generated profiles.
 
-The rules are ours (screening/profile.py docstring): no segment spans more than the
+The rules are ours (screening/profile/split.py docstring): no segment spans more than the
 height step, none is longer than the maximum, none hides a high point above its ends,
 and together they cover exactly the stretches where the wall has height. Checked on the
 profile points themselves, so a wrong cut anywhere fails.

@@ -76,7 +76,7 @@ def _scope(ctx: ScreenContext) -> list[tuple[str, BoolArray, Callable[[int], str
          "outside screening"),
         ("seismic", a.seismic_kh > r.max_seismic_kh + 1e-12,
          lambda i: f"seismic kh {a.seismic_kh[i]:.2f} > {r.max_seismic_kh:g}: outside screening"),
-        # Added with the seismic check (engine/seismic.py): M-O without a solution.
+        # Added with the seismic check (engine/checks/seismic.py): M-O without a solution.
         ("seismic", mo_invalid(ctx),
          lambda i: "Mononobe-Okabe has no solution (phi - psi - beta < 0): the retained "
          "soil is not stable under the design shaking, outside screening"),

@@ -147,7 +147,7 @@ def bearing(
     nc, _, ngamma = vesic_factors(ctx.found_friction_deg)
     cw = water_factor(ctx.a.found_water_depth_m[:, None], width)
     gamma_f = ctx.a.found_unit_weight_kn_m3[:, None]
-    # Toe slope in front (engine/slip_wall.py, Vesic 1975 ground-inclination factors).
+    # Toe slope in front (engine/slip/wall.py, Vesic 1975 ground-inclination factors).
     g_c, g_gamma, g_cu = toe_slope_bearing_factors(
         ctx.a.toe_slope_deg[:, None], ctx.found_friction_deg
     )

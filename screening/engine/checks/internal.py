@@ -5,7 +5,7 @@ backslope surcharge), T_max = Kr sigma_v Sv with Kr/Ka by material [from memory,
 11.10.6.2.1-3]. Pullout P = F* alpha sigma_v' C Le Rc with sigma_v' = gamma_r z + S + q_D
 (resisting factors, no live load) and C = 2 [from memory, AASHTO Eq. 11.10.6.3.2-1]. Rupture
 of geosynthetics T_al = T_ult/(RF_ID RF_CR RF_D) [AASHTO 11.10.6.4.3]; of steel phi Fy A_c on
-the section left after corrosion (engine/corrosion.py).
+the section left after corrosion (engine/checks/corrosion.py).
 
 Each layer gets the lightest grade of its family that carries T_max in every case and
 passes pullout at the chosen L (METHOD section 5: "the lightest grade that passes"); strips
