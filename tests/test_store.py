@@ -16,10 +16,10 @@ import numpy as np
 import pytest
 
 from screening import model, store
-from screening.errors import InputError
-from screening.presets import demo_corridor_path, load_presets
-from screening.store_toml import to_builtin
-from screening.validate import SEGMENT_FIELDS, check_segment, coerce_field
+from screening.model.errors import InputError
+from screening.model.presets import demo_corridor_path, load_presets
+from screening.model.validate import SEGMENT_FIELDS, check_segment, coerce_field
+from screening.store.toml_layout import to_builtin
 
 DESIGN_EXAMPLE = """
 schema = "wallscreen/1"

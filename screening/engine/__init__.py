@@ -6,7 +6,7 @@ arrays (inputs as arrays) -> context (geometry, loads, design strengths) -> inte
 that L) -> verdict (clear / marginal / refer and the reasons) -> CorridorResult.
 
 Checks added by other modules (compound, seismic) plug in as :class:`ExtraCheck` objects:
-a module ``screening.engine.compound`` or ``screening.engine.seismic`` that defines
+a module ``screening.engine.slip.compound`` or ``screening.engine.checks.seismic`` that defines
 ``EXTRA_CHECKS`` (a sequence of ExtraCheck) is picked up by :func:`default_extra_checks`.
 """
 
@@ -21,10 +21,17 @@ import numpy as np
 
 from screening import __version__
 from screening.engine.arrays import SegmentArrays, build_arrays
+from screening.engine.checks.corrosion import steel_loss_per_side_mm
+from screening.engine.checks.internal import prepare, pullout_layers
 from screening.engine.combine import concat, merge
-from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, build_context
-from screening.engine.corrosion import steel_loss_per_side_mm
-from screening.engine.internal import Grades, InternalSetup, prepare, pullout_layers
+from screening.engine.context import (
+    CheckValues,
+    ExtraCheck,
+    Grades,
+    InternalSetup,
+    ScreenContext,
+    build_context,
+)
 from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
 from screening.engine.sizing import evaluate, size_length
 from screening.engine.spacing import closer_spacing
@@ -43,7 +50,7 @@ __all__ = [
 ]
 
 ENGINE_VERSION = __version__
-PLUGIN_MODULES = ("screening.engine.compound", "screening.engine.seismic")
+PLUGIN_MODULES = ("screening.engine.slip.compound", "screening.engine.checks.seismic")
 
 
 def default_extra_checks() -> tuple[ExtraCheck, ...]:

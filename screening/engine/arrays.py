@@ -14,8 +14,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from screening.engine.result import BoolArray, FloatArray, IntArray
-from screening.errors import EngineError
 from screening.model import Corridor, FactorSet, Reinforcement, Rules, Segment
+from screening.model.errors import EngineError
 
 MATERIALS = ("steel-strip", "steel-grid", "geogrid", "geotextile")
 """Material codes: index into this tuple."""

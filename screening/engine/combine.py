@@ -12,7 +12,7 @@ from dataclasses import fields, replace
 import numpy as np
 
 from screening.engine.result import CheckArrays, CorridorResult, LayerArrays
-from screening.errors import EngineError
+from screening.model.errors import EngineError
 
 _PAD = {"mask": False, "grade_index": -1}
 

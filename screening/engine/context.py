@@ -9,19 +9,52 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass, fields, is_dataclass, replace
-from typing import TYPE_CHECKING
 
 import numpy as np
 
 from screening.engine.arrays import CaseArrays, SegmentArrays
+from screening.engine.checks.pressure import coulomb_ka, design_friction_deg, rankine_ka
 from screening.engine.geometry import Geometry, build_geometry
 from screening.engine.loads import traffic_kpa
-from screening.engine.pressure import coulomb_ka, design_friction_deg, rankine_ka
-from screening.engine.result import CDR_CAP, FloatArray, IntArray
+from screening.engine.result import CDR_CAP, BoolArray, FloatArray, IntArray
 from screening.model import Rules
 
-if TYPE_CHECKING:
-    from screening.engine.internal import InternalSetup
+
+@dataclass(frozen=True)
+class Grades:
+    """A grade per layer and what it gives, (n, m) each."""
+
+    index: IntArray
+    passes_rupture: BoolArray
+    """False where no grade of the family carries T_max (the heaviest is then used)."""
+    rupture_capacity: FloatArray
+    """Factored rupture capacity per metre run."""
+    coverage: FloatArray
+    """Rc used in pullout."""
+
+
+@dataclass(frozen=True)
+class InternalSetup:
+    """Everything internal that does not depend on L (filled by ``checks.internal.prepare``)."""
+
+    tension: FloatArray
+    """Factored T_max, (n, c, m); 0 on padding."""
+    tension_design: FloatArray
+    """Largest T_max over the cases that check rupture, (n, m)."""
+    grade_capacity: FloatArray
+    """Factored rupture capacity of every grade, (n, g); -inf on padding."""
+    grade_coverage: FloatArray
+    """Rc of every grade, (n, g)."""
+    rupture_ok: BoolArray
+    """(n, m, g): the grade carries the layer's T_max."""
+    best: Grades
+    """Per layer, the grade with the largest Rc among those that carry T_max (the heaviest
+    when none does): the most pullout a layer can get, used by the length search."""
+    pullout_unit: FloatArray
+    """Factored pullout resistance per metre of Le and unit Rc, phi F* alpha sigma_v' C, (n, c, m)."""
+    active_length: FloatArray
+    """La, (n, m)."""
+    mask: BoolArray
 
 
 @dataclass(frozen=True)

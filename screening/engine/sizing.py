@@ -27,10 +27,16 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from screening.engine import external, internal
-from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, take_rows
+from screening.engine.checks import external, internal
+from screening.engine.context import (
+    CheckValues,
+    ExtraCheck,
+    Grades,
+    InternalSetup,
+    ScreenContext,
+    take_rows,
+)
 from screening.engine.geometry import ceil_step
-from screening.engine.internal import InternalSetup
 from screening.engine.result import BoolArray, FloatArray, IntArray
 
 PASS_TOL = 1e-9
@@ -233,7 +239,7 @@ def _scan(ctx, s, extras, rows, start, top):
 
 def evaluate(
     ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraCheck], length_m: FloatArray
-) -> tuple[dict[str, CheckValues], internal.Grades]:
+) -> tuple[dict[str, CheckValues], Grades]:
     """Every check at L with its governing case, layer and words, and the grades chosen."""
     f = external.forces(ctx, length_m)
     grades = internal.choose_grades(ctx, s, length_m)

@@ -29,9 +29,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from screening.engine.checks.seismic import mo_invalid
 from screening.engine.context import CheckValues, ScreenContext
 from screening.engine.result import BoolArray, FloatArray, cdr_text
-from screening.engine.seismic import mo_invalid
 from screening.engine.sizing import ANCHORAGE_RULE, RULE_OF_THUMB, Sizing
 
 
@@ -78,7 +78,7 @@ def _scope(ctx: ScreenContext) -> list[tuple[str, BoolArray, Callable[[int], str
          "outside screening"),
         ("seismic", a.seismic_kh > r.max_seismic_kh + 1e-12,
          lambda i: f"seismic kh {a.seismic_kh[i]:.2f} > {r.max_seismic_kh:g}: outside screening"),
-        # Added with the seismic check (engine/seismic.py): M-O without a solution.
+        # Added with the seismic check (engine/checks/seismic.py): M-O without a solution.
         ("seismic", mo_invalid(ctx),
          lambda i: "Mononobe-Okabe has no solution (phi - psi - beta < 0): the retained "
          "soil is not stable under the design shaking, outside screening"),

@@ -11,7 +11,7 @@ from rich.text import Text
 
 from screening.engine.result import CorridorResult, cdr_text
 from screening.model import Corridor, Segment
-from screening.units import Display
+from screening.model.units import Display
 
 SI = Display("si")
 """Numbers as stored; ``Display("us")`` shows ft, psf, ... (files stay SI)."""

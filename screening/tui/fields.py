@@ -104,7 +104,7 @@ def parse_value(segment: Segment, name: str, raw: str, presets: object) -> objec
     (``foundation.friction_deg``) is checked as the whole soil table the store would read:
     the segment's soil with that one value changed.
     """
-    from screening.validate import coerce_field
+    from screening.model.validate import coerce_field
 
     head, _, sub = name.partition(".")
     if not sub:

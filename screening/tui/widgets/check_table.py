@@ -6,7 +6,7 @@ from rich.table import Table
 from rich.text import Text
 
 from screening.engine.result import SegmentResult, cdr_text
-from screening.units import Display
+from screening.model.units import Display
 
 SI = Display("si")
 
