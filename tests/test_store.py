@@ -182,7 +182,7 @@ def test_results_written_and_ignored_on_load(presets) -> None:
         assert res["verdict"] == result.verdict[i]
         assert res["governing"] == result.governing[i]
         assert res["length_m"] == pytest.approx(float(result.length_m[i]), abs=0.005)
-        assert res["min_cdr"] == pytest.approx(float(result.min_cdr[i]), abs=5e-4)
+        assert 0 <= float(result.min_cdr[i]) - res["min_cdr"] < 1e-3  # cut, never rounded up
         assert set(res) >= {"verdict", "governing", "length_m", "length_ratio", "min_cdr"}
     stored = store.stored_screen(text)
     assert stored is not None and stored.screen["factor_set"] == "aashto-lrfd"
