@@ -8,18 +8,20 @@ over all segments; only the sentences are written one by one, for the segments a
   closest spacing screening tries, when nothing passes), or the segment is outside the scope
   of screening (too high, soft foundation, marginal fill, water in the fill, steep backslope,
   strong shaking, tiered or back-to-back).
-- marginal: it passes, but one of: a check that did not set the reinforcement passes by less
-  than Rules.marginal_cdr; L exceeds Rules.marginal_length_ratio*H (and the 2.4 m minimum);
-  a layer needs the heaviest grade of its family, or a closer spacing than the family's;
-  H exceeds Rules.marginal_height_m.
+- marginal: it passes, but one of: a check of Rules.margin_checks (bearing and global: the
+  foundation decides them, more reinforcement hardly helps) passes by less than
+  Rules.marginal_cdr; L exceeds Rules.marginal_length_ratio*H (and the 2.4 m minimum); a
+  layer needs the heaviest grade of its family, or a closer spacing than the family's; H
+  exceeds Rules.marginal_height_m.
 - clear: otherwise.
 
-Checks that set the reinforcement sit at a CDR of about 1.0 by construction and say nothing
-about risk, so they are left out of the thin-margin test and said so in words: the check that
-set L (the shortest length it passes) or raised the grade; rupture, whose grade is chosen per
-layer (unless the family has a single grade); pullout of steel, whose coverage comes with the
-grade. Detailing minimums (L >= max(0.7H, 2.4 m), Le >= 0.9 m, embedment) are rules met by
-sizing, reported as such, never as a margin.
+The other checks set the reinforcement: sizing lengthens L or raises the grade until they
+pass, so a CDR near 1.0 on them is what a standard design does and says nothing about risk;
+the words name the check that set L ("set by compound: CDR about 1.00 by construction") and
+a long or heavy result shows as L > 0.9H or the heaviest grade. Rupture of a family with a
+single grade cannot be tuned and counts as a margin check. Detailing minimums (L >=
+max(0.7H, 2.4 m), Le >= 0.9 m, embedment) are rules met by sizing, reported as such, never
+as a margin. The table's "least margin" is the smallest CDR among the margin checks.
 """
 
 from __future__ import annotations
@@ -42,7 +44,7 @@ class Outcome:
     governing: list[str]
     min_cdr: FloatArray
     margin_check: list[str]
-    """The check with the least margin among those that did not set the reinforcement."""
+    """The margin check (Rules.margin_checks) with the least CDR ("" when none applies)."""
     margin_cdr: FloatArray
     """Its CDR (inf where every check set the reinforcement or none applies)."""
 
@@ -157,8 +159,8 @@ def decide(
         counts = ~(tuned & (set_by == name))
         if name == "rupture":
             counts &= ctx.a.grade_count <= 1
-        elif name == "pullout":
-            counts &= ~ctx.a.inextensible
+        elif name not in r.margin_checks:
+            continue
         take = counts & (cdr < margin)
         margin = np.where(take, cdr, margin)
         margin_name = np.where(take, name, margin_name)

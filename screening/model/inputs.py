@@ -234,6 +234,10 @@ class Rules:
     max_height_m: float = 12.0
     marginal_height_m: float = 10.0
     marginal_cdr: float = 1.10
+    margin_checks: tuple[str, ...] = ("bearing", "global")
+    """Checks whose CDR below marginal_cdr makes a passing segment marginal: those that
+    more or stronger reinforcement hardly helps (the foundation decides them). The others set
+    L or the grade, so a CDR near 1.0 on them is met by a standard design [cp]."""
     marginal_length_ratio: float = 0.9
     min_undrained_strength_kpa: float = 25.0
     max_fines_percent: float = 15.0

@@ -264,7 +264,7 @@ def convert(value: Any, tp: Any, name: str, where: Where) -> Any:
                 )
                 for i, v in enumerate(value)
             )
-        if name == "checks":
+        if name in ("checks", "margin_checks"):
             return tuple(choice(v, name, CHECK_NAMES, where) for v in value)
         return tuple(convert(v, item, name, where) for v in value)
     if origin is dict:

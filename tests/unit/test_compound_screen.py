@@ -87,7 +87,7 @@ def test_result_carries_the_critical_circles():
         assert np.isfinite([x, y, rad]).all()
         assert rad > 0 and y > 0  # the centre lies above the base of the wall
         assert r.extras[f"{fam}_converged"][0]
-    assert "radius" in r.checks["compound"].detail[0]
+    assert "circle from" in r.checks["compound"].detail[0]
 
 
 def test_mononobe_okabe_without_solution_refers_the_segment():

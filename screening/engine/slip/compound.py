@@ -188,6 +188,8 @@ def _flatten(found: CompoundResult) -> dict[str, np.ndarray]:
     for fam, check in (("compound", found.compound), ("global", found.global_)):
         for key in ("demand", "capacity", "cdr", "factor", "centre_x_m", "centre_y_m", "radius_m"):
             out[f"{fam}_{key}"] = np.asarray(getattr(check, key), dtype=np.float64)
+        out[f"{fam}_exit_m"] = np.asarray(check.params[:, 0], dtype=np.float64)
+        out[f"{fam}_entry_m"] = np.asarray(check.params[:, 1], dtype=np.float64)
         out[f"{fam}_converged"] = np.asarray(check.converged, dtype=bool)
         out[f"{fam}_found"] = np.asarray(check.found, dtype=bool)
         out[f"{fam}_case"] = np.asarray(check.case, dtype=object)
@@ -245,20 +247,7 @@ def _family_values(family: str):
         rows = np.flatnonzero(found)
         if rows.size:
             detail[rows] = np.array(
-                [
-                    f"circle centre {abs(x):.1f} m {'in front of' if x < 0 else 'behind'} the "
-                    f"face, {y:.1f} m above the base, radius {r:.1f} m, F = {f:.2f}"
-                    + (f", {c}" if c else "")
-                    for x, y, r, f, c in zip(
-                        v[f"{family}_centre_x_m"][rows].tolist(),
-                        v[f"{family}_centre_y_m"][rows].tolist(),
-                        v[f"{family}_radius_m"][rows].tolist(),
-                        v[f"{family}_factor"][rows].tolist(),
-                        v[f"{family}_case"][rows].tolist(),
-                        strict=True,
-                    )
-                ],
-                dtype=object,
+                _circle_words(v, family, rows, np.asarray(length_m)[rows]), dtype=object
             )
         stuck = np.flatnonzero(~converged)
         detail[stuck] = "Bishop iteration did not converge on the critical circle: full design"
@@ -266,6 +255,41 @@ def _family_values(family: str):
         return v[f"{family}_demand"], v[f"{family}_capacity"], cdr, detail.tolist(), case
 
     return evaluate
+
+
+def _circle_words(v: dict, family: str, rows: np.ndarray, length_m: FloatArray) -> list[str]:
+    """Where the critical circle runs, in the terms a section drawing uses: where it leaves
+    the ground in front, where it enters behind, how deep it goes (its centre can lie far
+    away: a nearly straight surface has a large radius)."""
+    exit_, entry = v[f"{family}_exit_m"][rows], v[f"{family}_entry_m"][rows]
+    xc, yc, r = (v[f"{family}_{k}"][rows] for k in ("centre_x_m", "centre_y_m", "radius_m"))
+    low_x = np.clip(xc, exit_, entry)
+    deepest = -(yc - np.sqrt(np.maximum(r**2 - (low_x - xc) ** 2, 0.0)))
+    out = []
+    for e, n, d, big_l, f, c in zip(
+        exit_.tolist(),
+        entry.tolist(),
+        deepest.tolist(),
+        length_m.tolist(),
+        v[f"{family}_factor"][rows].tolist(),
+        v[f"{family}_case"][rows].tolist(),
+        strict=True,
+    ):
+        front = "the toe" if e > -0.05 else f"{-e:.1f} m in front of the toe"
+        back = n - big_l
+        into = (
+            f"{back:.1f} m behind the reinforced zone"
+            if back > 0.05
+            else (
+                f"{n:.1f} m behind the face"
+                if back < -0.05
+                else "at the back of the reinforced zone"
+            )
+        )
+        depth = f"{d:.1f} m below the base at its deepest" if d > 0.05 else "above the base"
+        case = f", {c}" if c else ""
+        out.append(f"circle from {front} to {into}, {depth}, F = {f:.2f}{case}")
+    return out
 
 
 def _report(ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
