@@ -98,7 +98,7 @@ def _table(corridor, result) -> str:
 
     head = (
         f"{'segment':<10} {'chainage m':>17} {'Hd m':>6} {'L m':>6} {'L/H':>5} "
-        f"{'L set by':<15} {'least margin':<20}  verdict"
+        f"{'L set by':<16} {'least margin':<20}  verdict"
     )
     lines = [
         f"{corridor.name}  —  factor set {result.factor_set}, engine {result.engine_version}",
@@ -111,7 +111,7 @@ def _table(corridor, result) -> str:
         margin = _margin_words(result, i, cdr_text)
         lines.append(
             f"{seg.id:<10} {ch:>17} {result.design_height_m[i]:6.2f} {result.length_m[i]:6.1f} "
-            f"{result.length_ratio[i]:5.2f} {result.length_set_by[i]:<15} {margin:<20}  "
+            f"{result.length_ratio[i]:5.2f} {result.length_set_by[i]:<16} {margin:<20}  "
             f"{VERDICT_MARK[v]} {v}"
         )
     counts = result.counts()

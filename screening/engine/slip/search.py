@@ -258,12 +258,22 @@ def search(
     fam_f, fam_p = _keep_family_best(fam_f, fam_p, f, cls, grid)
     # Pattern search from the ``starts`` best grid circles, whatever their family, and from
     # the best grid circle of each family kept within that family.
+    # Each family also starts from its best circles in different parts of the section
+    # (different exit groups), so one family's second basin is not lost.
     order = _diverse_starts(f, start_groups, density.starts)  # (n, k)
     free = order.shape[1]
-    bp = np.concatenate([np.take_along_axis(grid, order[..., None], 1), fam_p], axis=1)
-    bf = np.concatenate([np.take_along_axis(f, order, 1).astype(np.float64), fam_f], axis=1)
+    per = max(1, density.family_starts)
+    own = [
+        _diverse_starts(np.where(cls == fam, f, np.inf), start_groups, per)
+        for fam in (COMPOUND, GLOBAL)
+    ]
+    picks = np.concatenate([order, *own], axis=1)
+    bp = np.take_along_axis(grid, picks[..., None], 1)
+    bf = np.take_along_axis(f, picks, 1).astype(np.float64)
     k = bp.shape[1]
-    family = np.array([INVALID] * free + [COMPOUND, GLOBAL])  # INVALID: any family
+    family = np.array(  # INVALID: any family
+        [INVALID] * free + [COMPOUND] * own[0].shape[1] + [GLOBAL] * own[1].shape[1]
+    )
     steps = np.repeat(initial_steps[:, None, :], k, axis=1)
     moves = {26: _MOVES, 14: _CORNER_MOVES}.get(density.moves, _AXIS_MOVES)
     n_moves = moves.shape[0]
