@@ -28,9 +28,9 @@ os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 
 import numpy as np  # noqa: E402
 
-from screening.engine.slip_check import compound_check
-from screening.engine.slip_search import FINE, STANDARD, SearchDensity  # noqa: E402
-from screening.engine.slip_wall import WallSlipInput  # noqa: E402
+from screening.engine.slip.check import compound_check
+from screening.engine.slip.density import FINE, STANDARD, SearchDensity  # noqa: E402
+from screening.engine.slip.wall import WallSlipInput  # noqa: E402
 
 
 def invented_walls(n: int, seed: int = 7) -> WallSlipInput:

@@ -20,12 +20,12 @@ os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 import numpy as np  # noqa: E402
 
 from screening import store  # noqa: E402
-from screening.corridor import corridor_from_profile  # noqa: E402
+from screening.corridor.quantities import corridor_quantities  # noqa: E402
+from screening.corridor.sensitivity import corridor_sensitivity, monte_carlo  # noqa: E402
 from screening.engine import screen  # noqa: E402
-from screening.presets import demo_corridor_path  # noqa: E402
-from screening.quantities import corridor_quantities  # noqa: E402
+from screening.model.presets import demo_corridor_path  # noqa: E402
+from screening.profile.build import corridor_from_profile  # noqa: E402
 from screening.report import write_report  # noqa: E402
-from screening.sensitivity import corridor_sensitivity, monte_carlo  # noqa: E402
 
 
 def invented_profile(points: int, seed: int = 5) -> str:

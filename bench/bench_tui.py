@@ -59,7 +59,7 @@ def replicated(n: int):
     """The demo corridor repeated along the chainage to ``n`` segments (new ids)."""
     from screening import store
     from screening.engine.samples import repeated
-    from screening.presets import demo_corridor_path
+    from screening.model.presets import demo_corridor_path
 
     return repeated(store.load(demo_corridor_path()), n)
 
@@ -87,7 +87,7 @@ def first_frame(n: int) -> None:
 
 
 async def edits(n_edits: int) -> None:
-    from screening.presets import load_presets
+    from screening.model.presets import load_presets
     from screening.tui.app import WallscreenApp
     from screening.tui.session import Session
 
@@ -132,7 +132,7 @@ async def edits(n_edits: int) -> None:
 
 
 async def large(n: int) -> None:
-    from screening.presets import load_presets
+    from screening.model.presets import load_presets
     from screening.tui.app import WallscreenApp
     from screening.tui.session import Session
 

@@ -12,7 +12,7 @@ from pathlib import Path
 import pytest
 
 from screening.cli import main
-from screening.presets import demo_corridor_path
+from screening.model.presets import demo_corridor_path
 
 DEMO = demo_corridor_path()
 

@@ -11,7 +11,7 @@ import json
 import pytest
 
 from screening import store
-from screening.diff import diff_corridors, diff_json, diff_text
+from screening.corridor.diff import diff_corridors, diff_json, diff_text
 from screening.engine import screen
 
 OLD = """

@@ -22,7 +22,7 @@ PRESET_FILES = (
 
 
 def test_presets_found_from_checkout() -> None:
-    from screening.presets import presets_root
+    from screening.model.presets import presets_root
 
     root = presets_root()
     for name in PRESET_FILES:
@@ -49,12 +49,21 @@ def test_wheel_carries_presets_and_stylesheet(wheel: Path) -> None:
     assert any(n.startswith("screening/tui/") and n.endswith(".tcss") for n in names)
 
 
+def test_wheel_carries_every_package(wheel: Path) -> None:
+    """Packages are found, not listed (setup.py): a new folder under screening/ ships as is."""
+    names = set(zipfile.ZipFile(wheel).namelist())
+    packages = sorted((ROOT / "screening").rglob("__init__.py"))
+    assert len(packages) >= 10
+    for init in packages:
+        assert init.relative_to(ROOT).as_posix() in names, init
+
+
 def test_presets_found_from_wheel_contents(wheel: Path, tmp_path: Path) -> None:
     """Unpack the wheel (no install needed) and import from there, away from the checkout."""
     zipfile.ZipFile(wheel).extractall(tmp_path)
     code = (
         "import sys; sys.path.insert(0, sys.argv[1]);"
-        "from screening.presets import presets_root, load_presets;"
+        "from screening.model.presets import presets_root, load_presets;"
         "r = presets_root(); p = load_presets();"
         "print(str(r).startswith(sys.argv[1]), len(p.fills) >= 5)"
     )

@@ -14,9 +14,9 @@ from pathlib import Path
 import pytest
 
 from screening import model, store
-from screening.errors import InputError
-from screening.presets import FILES, demo_corridor_path, load_presets, presets_root
-from screening.schema import RESISTANCE_KEYS
+from screening.model.errors import InputError
+from screening.model.presets import FILES, demo_corridor_path, load_presets, presets_root
+from screening.model.schema import RESISTANCE_KEYS
 
 SHIPPED = Path(__file__).resolve().parent.parent / "presets"
 

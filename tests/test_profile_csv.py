@@ -12,18 +12,14 @@ from pathlib import Path
 import pytest
 
 from screening import store
-from screening.corridor import (
-    corridor_from_profile,
-    edit_segments,
-    join_low_pieces,
-    select_segments,
-)
+from screening.corridor.edit import edit_segments, select_segments
 from screening.engine.samples import LRFD, make_defaults
-from screening.errors import InputError
 from screening.model import (
     Defaults,
 )
-from screening.profile_csv import read_profile_csv
+from screening.model.errors import InputError
+from screening.profile.build import corridor_from_profile, join_low_pieces
+from screening.profile.csv_file import read_profile_csv
 
 DATA = Path(__file__).parent / "data" / "profiles"
 

@@ -1,6 +1,6 @@
 """Properties of the split of a profile into segments, over generated profiles.
 
-The rules are ours (screening/profile.py docstring): no segment spans more than the
+The rules are ours (screening/profile/split.py docstring): no segment spans more than the
 height step, none is longer than the maximum, none hides a high point above its ends,
 and together they cover exactly the stretches where the wall has height. Checked on the
 profile points themselves, so a wrong cut anywhere fails.
@@ -13,7 +13,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from screening.profile import split_profile, wall_code
+from screening.profile.split import split_profile, wall_code
 
 ROUND = 2e-3  # ends are rounded to the millimetre
 
@@ -102,9 +102,9 @@ def test_every_profile_corridor_is_a_valid_file(profile, step, max_len):
     """Whatever the profile, the corridor it gives must load back from its own file:
     unique ids, no overlaps within a wall, every segment at least one spacing high."""
     from screening import store
-    from screening.corridor import segments_from_lines, starting_defaults
-    from screening.presets import load_presets
-    from screening.profile import ProfileLine
+    from screening.model.presets import load_presets
+    from screening.profile.build import segments_from_lines, starting_defaults
+    from screening.profile.split import ProfileLine
 
     ch, h = profile
     if h.max() < 1.0:

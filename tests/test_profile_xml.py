@@ -16,10 +16,10 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from screening.corridor import corridor_from_profile
 from screening.engine.samples import ASD, GEOGRID, make_defaults
-from screening.errors import InputError
-from screening.profile_xml import read_profile_xml
+from screening.model.errors import InputError
+from screening.profile.build import corridor_from_profile
+from screening.profile.landxml import read_profile_xml
 
 DATA = Path(__file__).parent / "data" / "profiles"
 APPROACH = (DATA / "approach.xml").read_text()

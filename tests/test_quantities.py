@@ -14,9 +14,9 @@ import math
 import pytest
 
 from screening import store
+from screening.corridor.quantities import Rates, corridor_quantities, layer_runs_m, load_rates
 from screening.engine import screen
-from screening.errors import InputError
-from screening.quantities import Rates, corridor_quantities, layer_runs_m, load_rates
+from screening.model.errors import InputError
 
 RATES = Rates(
     face_m2=100.0,

@@ -15,10 +15,9 @@ from html.parser import HTMLParser
 
 import pytest
 
-from screening import store
+from screening import CAUTION, store
 from screening.engine import screen
-from screening.errors import InputError
-from screening.jsonout import CAUTION
+from screening.model.errors import InputError
 from screening.report import build_report_data, write_report
 
 TEXT = """
@@ -195,7 +194,7 @@ def test_monte_carlo_section_when_asked(screened, tmp_path):
 
 def test_cross_sections_find_the_critical_circles_the_screen_reports(screened):
     """Whatever slip families the engine checks, the figure finds their circles."""
-    from screening.report_figures import slip_circles
+    from screening.report.figures import slip_circles
 
     _, result = screened
     families = [n for n in ("compound", "global") if n in result.checks]
@@ -219,7 +218,7 @@ def test_cross_sections_beyond_the_limit_are_left_out_with_a_note(screened):
 
 
 def test_summary_by_wall_counts_every_segment_once(screened, tmp_path):
-    from screening.report_tables import by_wall
+    from screening.report.tables import by_wall
 
     corridor, result = screened
     data = build_report_data(corridor, result, sensitivity=False)

@@ -24,15 +24,15 @@ import numpy as np
 import pytest
 
 from screening import store
-from screening.engine import screen
-from screening.errors import InputError
-from screening.sensitivity import (
+from screening.corridor.sensitivity import (
     INPUT_KEYS,
     draw_inputs,
     load_ranges,
     monte_carlo,
     segment_sensitivity,
 )
+from screening.engine import screen
+from screening.model.errors import InputError
 
 
 def _corridor(foundation: str, heights=(6.0,), reinforcement: str = "steel-strip"):
@@ -146,7 +146,7 @@ def test_monte_carlo_without_spread_gives_the_base_verdict_and_scope_refers_alwa
 def test_batched_sensitivity_equals_one_segment_at_a_time():
     """Screening is per segment, so putting every segment's variants in one engine call
     must give exactly what one call per segment gives."""
-    from screening.sensitivity import corridor_sensitivity
+    from screening.corridor.sensitivity import corridor_sensitivity
 
     c = _corridor(WEAK, heights=(3.0, 6.0, 8.0))
     both = corridor_sensitivity(c, [0, 2], extra_checks=CORE)

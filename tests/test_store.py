@@ -16,10 +16,10 @@ import numpy as np
 import pytest
 
 from screening import model, store
-from screening.errors import InputError
-from screening.presets import demo_corridor_path, load_presets
-from screening.store_toml import to_builtin
-from screening.validate import SEGMENT_FIELDS, check_segment, coerce_field
+from screening.model.errors import InputError
+from screening.model.presets import demo_corridor_path, load_presets
+from screening.model.validate import SEGMENT_FIELDS, check_segment, coerce_field
+from screening.store.toml_layout import to_builtin
 
 DESIGN_EXAMPLE = """
 schema = "wallscreen/1"
@@ -182,7 +182,7 @@ def test_results_written_and_ignored_on_load(presets) -> None:
         assert res["verdict"] == result.verdict[i]
         assert res["governing"] == result.governing[i]
         assert res["length_m"] == pytest.approx(float(result.length_m[i]), abs=0.005)
-        assert res["min_cdr"] == pytest.approx(float(result.min_cdr[i]), abs=5e-4)
+        assert 0 <= float(result.min_cdr[i]) - res["min_cdr"] < 1e-3  # cut, never rounded up
         assert set(res) >= {"verdict", "governing", "length_m", "length_ratio", "min_cdr"}
     stored = store.stored_screen(text)
     assert stored is not None and stored.screen["factor_set"] == "aashto-lrfd"

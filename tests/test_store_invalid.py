@@ -16,7 +16,7 @@ from pathlib import Path
 import pytest
 
 from screening import store
-from screening.errors import InputError
+from screening.model.errors import InputError
 
 CORPUS = Path(__file__).parent / "data" / "invalid"
 FILES = sorted(CORPUS.glob("*.toml"))

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import pytest
 
-from screening.units import Display, convert
+from screening.model.units import Display, convert
 
 
 @pytest.mark.parametrize(

@@ -6,7 +6,7 @@ arrays (inputs as arrays) -> context (geometry, loads, design strengths) -> inte
 that L) -> verdict (clear / marginal / refer and the reasons) -> CorridorResult.
 
 Checks added by other modules (compound, seismic) plug in as :class:`ExtraCheck` objects:
-a module ``screening.engine.compound`` or ``screening.engine.seismic`` that defines
+a module ``screening.engine.slip.compound`` or ``screening.engine.checks.seismic`` that defines
 ``EXTRA_CHECKS`` (a sequence of ExtraCheck) is picked up by :func:`default_extra_checks`.
 """
 
@@ -21,12 +21,20 @@ import numpy as np
 
 from screening import __version__
 from screening.engine.arrays import SegmentArrays, build_arrays
+from screening.engine.checks.corrosion import steel_loss_per_side_mm
+from screening.engine.checks.internal import prepare, pullout_layers
 from screening.engine.combine import concat, merge
-from screening.engine.context import CheckValues, ExtraCheck, ScreenContext, build_context
-from screening.engine.corrosion import steel_loss_per_side_mm
-from screening.engine.internal import Grades, InternalSetup, prepare, pullout_layers
+from screening.engine.context import (
+    CheckValues,
+    ExtraCheck,
+    Grades,
+    InternalSetup,
+    ScreenContext,
+    build_context,
+)
 from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
 from screening.engine.sizing import evaluate, size_length
+from screening.engine.spacing import closer_spacing
 from screening.engine.verdict import SIZING_CHECKS, decide
 from screening.model import CHECKS, Corridor, FactorSet
 
@@ -42,7 +50,7 @@ __all__ = [
 ]
 
 ENGINE_VERSION = __version__
-PLUGIN_MODULES = ("screening.engine.compound", "screening.engine.seismic")
+PLUGIN_MODULES = ("screening.engine.slip.compound", "screening.engine.checks.seismic")
 
 
 def default_extra_checks() -> tuple[ExtraCheck, ...]:
@@ -92,11 +100,22 @@ def screen_iter(
 
 
 def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> CorridorResult:
-    """The engine proper, on inputs already turned into arrays."""
+    """The engine proper, on inputs already turned into arrays: the screen, then a closer
+    spacing on the segments whose layers are too weak at any length and grade."""
+    result = _screen_once(a, extras)
+    return closer_spacing(a, result, lambda sub, words: _screen_once(sub, extras, words))
+
+
+def _screen_once(
+    a: SegmentArrays, extras: Sequence[ExtraCheck] = (), spacing_words: list[str] | None = None
+) -> CorridorResult:
+    """Size, check and judge every segment at its given spacing."""
     ctx = build_context(a)
     setup = prepare(ctx)
     ctx = replace(ctx, internal=setup)
     sizing = size_length(ctx, setup, extras)
+    if sizing.grade_boost.any():
+        ctx = replace(ctx, grade_boost=sizing.grade_boost)
     checks, grades = evaluate(ctx, setup, extras, sizing.length_m)
     unchecked = {name for name in CHECKS if not a.cases.uses(name).any()}
     layer_grade = np.where(setup.mask, grades.index, -1)
@@ -107,7 +126,13 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
     ).any(axis=1)
     sizing_names = SIZING_CHECKS + tuple(c.name for c in extras if c.sizes_length)
     outcome = decide(
-        ctx, sizing, checks, unchecked, heaviest_grade=heaviest, sizing_names=sizing_names
+        ctx,
+        sizing,
+        checks,
+        unchecked,
+        heaviest_grade=heaviest,
+        sizing_names=sizing_names,
+        closer_spacing=spacing_words,
     )
     extra_arrays: dict[str, object] = {
         "embedment_ratio": ctx.geom.embedment_ratio,
@@ -136,6 +161,10 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
         rule_length_m=ctx.geom.rule_length_m,
         governing=outcome.governing,
         min_cdr=np.clip(outcome.min_cdr, 0.0, CDR_CAP),
+        length_set_by=list(sizing.set_by),
+        margin_check=outcome.margin_check,
+        margin_cdr=np.clip(outcome.margin_cdr, 0.0, CDR_CAP),
+        grade_boost=sizing.grade_boost,
         traffic_kpa=ctx.live_kpa,
         checks={name: _check_arrays(a, v, name in unchecked) for name, v in checks.items()},
         layers=_layer_arrays(ctx, setup, grades, sizing.length_m),
@@ -147,6 +176,8 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
 def _check_arrays(a: SegmentArrays, v: CheckValues, unchecked: bool) -> CheckArrays:
     names = np.array([*a.cases.names, ""], dtype=object)
     case = names[np.where(v.case < 0, len(names) - 1, v.case)].tolist()
+    if v.case_name is not None:
+        case = [str(c) for c in v.case_name]
     if unchecked:
         detail = ["not checked by this factor set"] * a.n
     else:

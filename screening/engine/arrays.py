@@ -14,8 +14,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from screening.engine.result import BoolArray, FloatArray, IntArray
-from screening.errors import EngineError
 from screening.model import Corridor, FactorSet, Reinforcement, Rules, Segment
+from screening.model.errors import EngineError
 
 MATERIALS = ("steel-strip", "steel-grid", "geogrid", "geotextile")
 """Material codes: index into this tuple."""
@@ -92,6 +92,8 @@ class SegmentArrays:
     found_undrained_kpa: FloatArray
     """cu, kPa; NaN for a drained (free-draining) foundation."""
     found_water_depth_m: FloatArray
+    found_firm_depth_m: FloatArray
+    """Depth of a firm stratum below the base, m; inf where none is known, (n,)."""
     found_rock: BoolArray
     # reinforcement family
     material: IntArray
@@ -326,6 +328,12 @@ def build_arrays(corridor: Corridor, factor_set: FactorSet | None = None) -> Seg
         found_cohesion_kpa=f([s.foundation.cohesion_kpa for s in segs]),
         found_undrained_kpa=f([np.nan if v is None else v for v in cu]),
         found_water_depth_m=f([s.foundation.water_depth_m for s in segs]),
+        found_firm_depth_m=f(
+            [
+                np.inf if s.foundation.firm_depth_m is None else s.foundation.firm_depth_m
+                for s in segs
+            ]
+        ),
         found_rock=rock,
         material=material,
         inextensible=fam("inextensible").astype(bool),

@@ -12,7 +12,7 @@ from dataclasses import fields, replace
 import numpy as np
 
 from screening.engine.result import CheckArrays, CorridorResult, LayerArrays
-from screening.errors import EngineError
+from screening.model.errors import EngineError
 
 _PAD = {"mask": False, "grade_index": -1}
 
@@ -138,4 +138,31 @@ def merge(
         for f in fields(CorridorResult)
         if f.name not in ("checks", "layers", "extras", "factor_set", "engine_version")
     }
+    return replace(result, **simple, checks=checks, layers=layers, extras=extras)
+
+
+def take(result: CorridorResult, indices: Sequence[int]) -> CorridorResult:
+    """The rows ``indices`` of ``result``, in that order, as a result of their own."""
+    idx = np.asarray(list(indices), dtype=np.int64)
+
+    def rows(value):
+        if isinstance(value, np.ndarray) and value.ndim >= 1 and value.shape[0] == len(result):
+            return value[idx]
+        if isinstance(value, list) and len(value) == len(result):
+            return [value[i] for i in idx.tolist()]
+        return value
+
+    checks = {
+        name: CheckArrays(**{f.name: rows(getattr(c, f.name)) for f in fields(CheckArrays)})
+        for name, c in result.checks.items()
+    }
+    layers = LayerArrays(
+        **{f.name: rows(getattr(result.layers, f.name)) for f in fields(LayerArrays)}
+    )
+    simple = {
+        f.name: rows(getattr(result, f.name))
+        for f in fields(CorridorResult)
+        if f.name not in ("checks", "layers", "extras", "factor_set", "engine_version")
+    }
+    extras = {key: rows(value) for key, value in result.extras.items()}
     return replace(result, **simple, checks=checks, layers=layers, extras=extras)

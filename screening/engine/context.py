@@ -9,19 +9,52 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass, fields, is_dataclass, replace
-from typing import TYPE_CHECKING
 
 import numpy as np
 
 from screening.engine.arrays import CaseArrays, SegmentArrays
+from screening.engine.checks.pressure import coulomb_ka, design_friction_deg, rankine_ka
 from screening.engine.geometry import Geometry, build_geometry
 from screening.engine.loads import traffic_kpa
-from screening.engine.pressure import coulomb_ka, design_friction_deg, rankine_ka
-from screening.engine.result import CDR_CAP, FloatArray, IntArray
+from screening.engine.result import CDR_CAP, BoolArray, FloatArray, IntArray
 from screening.model import Rules
 
-if TYPE_CHECKING:
-    from screening.engine.internal import InternalSetup
+
+@dataclass(frozen=True)
+class Grades:
+    """A grade per layer and what it gives, (n, m) each."""
+
+    index: IntArray
+    passes_rupture: BoolArray
+    """False where no grade of the family carries T_max (the heaviest is then used)."""
+    rupture_capacity: FloatArray
+    """Factored rupture capacity per metre run."""
+    coverage: FloatArray
+    """Rc used in pullout."""
+
+
+@dataclass(frozen=True)
+class InternalSetup:
+    """Everything internal that does not depend on L (filled by ``checks.internal.prepare``)."""
+
+    tension: FloatArray
+    """Factored T_max, (n, c, m); 0 on padding."""
+    tension_design: FloatArray
+    """Largest T_max over the cases that check rupture, (n, m)."""
+    grade_capacity: FloatArray
+    """Factored rupture capacity of every grade, (n, g); -inf on padding."""
+    grade_coverage: FloatArray
+    """Rc of every grade, (n, g)."""
+    rupture_ok: BoolArray
+    """(n, m, g): the grade carries the layer's T_max."""
+    best: Grades
+    """Per layer, the grade with the largest Rc among those that carry T_max (the heaviest
+    when none does): the most pullout a layer can get, used by the length search."""
+    pullout_unit: FloatArray
+    """Factored pullout resistance per metre of Le and unit Rc, phi F* alpha sigma_v' C, (n, c, m)."""
+    active_length: FloatArray
+    """La, (n, m)."""
+    mask: BoolArray
 
 
 @dataclass(frozen=True)
@@ -50,6 +83,14 @@ class ScreenContext:
     """Design cu of the foundation, (n, c); NaN when drained."""
     internal: InternalSetup | None = None
     """Tensions, grades and pullout terms (set by the screen before any check runs)."""
+    grade_boost: IntArray | None = None
+    """Grade steps added to every layer above the lightest that passes internally, (n,);
+    None: none (sizing raises it where no length passes compound stability)."""
+
+    @property
+    def boost(self) -> IntArray:
+        """``grade_boost`` with None as zeros, (n,)."""
+        return np.zeros(self.n, dtype=np.int64) if self.grade_boost is None else self.grade_boost
 
     @property
     def n(self) -> int:
@@ -118,6 +159,9 @@ class CheckValues:
     """Index of the governing load case; -1 where no case lists the check."""
     detail: list[str] | None = None
     """Words on where it governs, per segment (None: none to give)."""
+    case_name: list[str] | None = None
+    """Name of the governing case per segment, for checks whose cases are not the factor
+    set's load cases (slip circles: Service I; seismic: Extreme Event I); None: use ``case``."""
 
 
 def ratio(capacity: FloatArray, demand: FloatArray) -> FloatArray:
@@ -145,7 +189,7 @@ def worst_case(
 
 
 ExtraEvaluate = Callable[[ScreenContext, FloatArray], tuple]
-"""(ctx, L) -> (demand, capacity, cdr) or (demand, capacity, cdr, detail), each ``(n,)``."""
+"""(ctx, L) -> (demand, capacity, cdr[, detail[, case name]]), each ``(n,)``."""
 
 
 @dataclass(frozen=True)
@@ -166,5 +210,7 @@ class ExtraCheck:
         out = self.evaluate(ctx, length_m)
         demand, capacity, cdr = (np.asarray(v, dtype=np.float64) for v in out[:3])
         detail = list(out[3]) if len(out) > 3 else None
+        case_name = list(out[4]) if len(out) > 4 else None
         cdr = np.clip(np.nan_to_num(cdr, nan=0.0, posinf=CDR_CAP), 0.0, CDR_CAP)
-        return CheckValues(demand, capacity, cdr, np.full(ctx.n, -1, dtype=np.int64), detail)
+        case = np.full(ctx.n, -1, dtype=np.int64)
+        return CheckValues(demand, capacity, cdr, case, detail, case_name)

@@ -13,9 +13,9 @@ from pathlib import Path
 from textual.app import App, SystemCommand
 from textual.screen import Screen
 
-from screening import presets as presets_module
 from screening import store
-from screening.errors import WallscreenError
+from screening.model import presets as presets_module
+from screening.model.errors import WallscreenError
 from screening.tui.config import load_state, save_state
 from screening.tui.keys import ACTIONS, all_keys
 from screening.tui.screens.about import AboutScreen

@@ -9,9 +9,9 @@ from __future__ import annotations
 
 from rich.text import Text
 
-from screening.engine.result import CorridorResult
+from screening.engine.result import CorridorResult, cdr_text
 from screening.model import Corridor, Segment
-from screening.units import Display
+from screening.model.units import Display
 
 SI = Display("si")
 """Numbers as stored; ``Display("us")`` shows ft, psf, ... (files stay SI)."""
@@ -100,7 +100,7 @@ def result_cells(
         "length": Text(f"{display.value(float(result.length_m[i]), 'm'):.1f}", justify="right"),
         "ratio": Text(f"{result.length_ratio[i]:.2f}", justify="right"),
         "governing": Text(result.governing[i]),
-        "cdr": Text(f"{cdr:.2f}", justify="right", style="bold red" if weak else ""),
+        "cdr": Text(cdr_text(cdr), justify="right", style="bold red" if weak else ""),
         "verdict": verdict_text(verdict),
     }
     if provisional:

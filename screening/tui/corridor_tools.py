@@ -2,8 +2,8 @@
 report paths, the other file of a comparison, a cache of sensitivity runs, and how an
 input that changed reads in the display units.
 
-The engine work itself lives in ``screening.quantities``, ``screening.report``,
-``screening.diff`` and ``screening.sensitivity``; this module only shapes their inputs
+The engine work itself lives in ``screening.corridor.quantities``, ``screening.report``,
+``screening.corridor.diff`` and ``screening.corridor.sensitivity``; this module only shapes their inputs
 and outputs for the screens.
 """
 
@@ -16,15 +16,15 @@ from typing import Any
 import numpy as np
 
 from screening import engine, store
-from screening.diff import CorridorDiff, diff_corridors
+from screening.corridor.diff import CorridorDiff, diff_corridors
+from screening.corridor.quantities import Rates, SegmentQuantities, corridor_quantities, load_rates
+from screening.corridor.sensitivity import Sensitivity, segment_sensitivity
 from screening.engine.context import take_rows
 from screening.engine.result import CorridorResult
-from screening.errors import InputError
 from screening.model import Corridor, Segment
-from screening.quantities import Rates, SegmentQuantities, corridor_quantities, load_rates
+from screening.model.errors import InputError
+from screening.model.units import Display
 from screening.report import FORMATS
-from screening.sensitivity import Sensitivity, segment_sensitivity
-from screening.units import Display
 
 # ------------------------------------------------------------------ quantities
 
@@ -52,7 +52,7 @@ def shipped_rates() -> Rates:
 
 
 def rates_path() -> str:
-    from screening.presets import presets_root
+    from screening.model.presets import presets_root
 
     return str(presets_root() / "rates.toml")
 

@@ -46,6 +46,7 @@ FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("foundation.cohesion_kpa", "Foundation c′", "kPa", "effective cohesion"),
     FieldSpec("foundation.undrained_strength_kpa", "Foundation cu", "kPa", "blank = drained"),
     FieldSpec("foundation.water_depth_m", "Water below base", "m", "0 = at the base"),
+    FieldSpec("foundation.firm_depth_m", "Firm layer below base", "m", "blank = none known"),
     FieldSpec("water_in_fill", "Water in fill", "", "yes | no"),
     FieldSpec("arrangement", "Arrangement", "", "single | tiered | back-to-back"),
     FieldSpec("note", "Note", "", "free text"),
@@ -103,7 +104,7 @@ def parse_value(segment: Segment, name: str, raw: str, presets: object) -> objec
     (``foundation.friction_deg``) is checked as the whole soil table the store would read:
     the segment's soil with that one value changed.
     """
-    from screening.validate import coerce_field
+    from screening.model.validate import coerce_field
 
     head, _, sub = name.partition(".")
     if not sub:

@@ -16,12 +16,12 @@ from pathlib import Path
 
 from screening import engine, store
 from screening.engine.result import CorridorResult
-from screening.errors import InputError
-from screening.location import Where
 from screening.model import Corridor, Segment
+from screening.model.errors import InputError
+from screening.model.location import Where
+from screening.model.units import Display
+from screening.model.validate import check_corridor, check_segment
 from screening.tui.fields import BY_NAME, parse_value, with_value
-from screening.units import Display
-from screening.validate import check_corridor, check_segment
 
 UNDO_DEPTH = 40
 

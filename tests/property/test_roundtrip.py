@@ -15,7 +15,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from screening import model, store
-from screening.presets import load_presets
+from screening.model.presets import load_presets
 
 P = load_presets()
 

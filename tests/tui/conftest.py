@@ -8,7 +8,7 @@ from pathlib import Path
 
 import pytest
 
-from screening.presets import demo_corridor_path
+from screening.model.presets import demo_corridor_path
 
 
 @pytest.fixture(autouse=True)

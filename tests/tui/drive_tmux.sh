@@ -48,7 +48,7 @@ keys() { $T send-keys -t app "$@"; }
 text() { $T send-keys -t app -l "$1"; }
 pause() { sleep "${1:-0.3}"; }  # after keys that move focus or change screens
 
-cp "$("$PY" -c 'from screening.presets import demo_corridor_path; print(demo_corridor_path())')" \
+cp "$("$PY" -c 'from screening.model.presets import demo_corridor_path; print(demo_corridor_path())')" \
    "$WORK/corridor.toml" || fail "demo corridor not found"
 ID="$("$PY" -c '
 import sys

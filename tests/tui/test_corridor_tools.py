@@ -16,9 +16,9 @@ from pathlib import Path
 from textual.widgets import Checkbox, DataTable, Input, Static
 
 from screening import engine, store
-from screening.quantities import corridor_quantities
+from screening.corridor.quantities import corridor_quantities
+from screening.corridor.sensitivity import segment_sensitivity
 from screening.report import CAUTION
-from screening.sensitivity import segment_sensitivity
 from screening.tui.screens.compare import CompareScreen
 from screening.tui.screens.detail import DetailScreen
 from screening.tui.screens.export import ExportScreen

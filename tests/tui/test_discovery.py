@@ -10,7 +10,7 @@ import pytest
 
 from screening import engine
 from screening.engine.samples import repeated
-from screening.presets import load_presets
+from screening.model.presets import load_presets
 from screening.tui.app import WallscreenApp, open_session
 from screening.tui.config import load_state
 from screening.tui.keys import ACTIONS, shown_key

@@ -11,6 +11,7 @@ from pathlib import Path
 from rich.console import Console
 
 from screening import engine, store
+from screening.engine.result import cdr_text
 from screening.tui.cells import COLUMNS, VERDICT_MARK
 from screening.tui.screens.detail import DetailScreen
 from screening.tui.screens.prompt import PromptScreen
@@ -61,7 +62,7 @@ async def rows_match_fresh_screen(pilot, app) -> None:
         assert drawn(app, i, "id") == corridor.segments[i].id
         assert drawn(app, i, "verdict") == f"{VERDICT_MARK[fresh.verdict[i]]} {fresh.verdict[i]}"
         assert drawn(app, i, "length") == f"{fresh.length_m[i]:.1f}"
-        assert drawn(app, i, "cdr") == f"{fresh.min_cdr[i]:.2f}"
+        assert drawn(app, i, "cdr") == cdr_text(fresh.min_cdr[i])
     for verdict, count in fresh.counts().items():
         assert f"{VERDICT_MARK[verdict]} {verdict} {count}" in summary(app)
     assert f"{len(corridor.segments)} segments" in summary(app)
@@ -242,7 +243,7 @@ async def test_detail_view_shows_checks_reasons_layers_and_sketch(corridor_file:
         res = engine.screen(app.corridor_screen.session.corridor).segment(1)
         checks = plain(detail.query_one("#detail-checks").content)
         for name, check in res.checks.items():
-            assert name in checks and f"{check.cdr:.2f}" in checks
+            assert name in checks and cdr_text(check.cdr) in checks
         assert f"▸ {res.governing}" in checks  # the governing check is marked
         assert res.reasons[0] in plain(detail.query_one("#detail-reasons").content)
         layers = plain(detail.query_one("#detail-layers").content)

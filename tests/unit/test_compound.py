@@ -12,10 +12,10 @@ import dataclasses
 import numpy as np
 import pytest
 
-from screening.engine.slip_check import compound_check
-from screening.engine.slip_geometry import Circles, SlipLayers, SlipSection, reinforcement_moment
-from screening.engine.slip_search import FINE, STANDARD
-from screening.engine.slip_wall import WallSlipInput
+from screening.engine.slip.check import compound_check
+from screening.engine.slip.density import FINE, STANDARD
+from screening.engine.slip.geometry import Circles, SlipLayers, SlipSection, reinforcement_moment
+from screening.engine.slip.wall import WallSlipInput
 
 LRFD = {"compound": 0.65, "compound_abutment": 0.65}
 

@@ -14,9 +14,9 @@ import pytest
 from screening import store
 from screening.engine import screen
 from screening.engine.arrays import build_arrays
+from screening.engine.checks.internal import prepare
+from screening.engine.checks.seismic import seismic_checks
 from screening.engine.context import build_context
-from screening.engine.internal import prepare
-from screening.engine.seismic import seismic_checks
 
 
 def corridor(foundation: str, height=6.0, seismic_kh=0.0, backslope=0.0, extra=""):
@@ -87,7 +87,7 @@ def test_result_carries_the_critical_circles():
         assert np.isfinite([x, y, rad]).all()
         assert rad > 0 and y > 0  # the centre lies above the base of the wall
         assert r.extras[f"{fam}_converged"][0]
-    assert "radius" in r.checks["compound"].detail[0]
+    assert "circle from" in r.checks["compound"].detail[0]
 
 
 def test_mononobe_okabe_without_solution_refers_the_segment():
@@ -157,7 +157,7 @@ def test_slip_results_do_not_depend_on_the_batch():
 def test_sizing_and_the_reported_check_agree():
     """METHOD section 7: the chosen L passes every check unless the search ran out of
     lengths, so the slip checks reported at L agree with what sizing saw there."""
-    from screening import presets
+    from screening.model import presets
 
     r = screen(store.load(presets.demo_corridor_path()))
     exhausted = np.asarray(r.extras["search_exhausted"], dtype=bool)

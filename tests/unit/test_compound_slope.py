@@ -16,9 +16,9 @@ import pytest
 from screening import store
 from screening.engine import screen
 from screening.engine.arrays import build_arrays
+from screening.engine.checks.external import bearing
 from screening.engine.context import build_context
-from screening.engine.external import bearing
-from screening.engine.slip_wall import toe_slope_bearing_factors
+from screening.engine.slip.wall import toe_slope_bearing_factors
 
 DENSE_SAND = "{ unit_weight_kn_m3 = 20.0, friction_deg = 38.0 }"
 

@@ -15,8 +15,8 @@ import numpy as np
 import pytest
 
 from screening.engine.arrays import build_arrays
+from screening.engine.checks.external import bearing, eccentricity, sliding, water_factor
 from screening.engine.context import build_context
-from screening.engine.external import bearing, eccentricity, sliding, water_factor
 from screening.engine.samples import ASD, LRFD, make_corridor, make_segment
 from screening.model import Foundation, Soil
 

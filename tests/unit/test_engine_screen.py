@@ -142,7 +142,7 @@ def test_a_failing_check_refers_with_numbers() -> None:
     reason = [x for x in r.reasons[0] if x.startswith("sliding CDR")]
     length, h = r.length_m[0], r.design_height_m[0]
     assert length <= 1.2 * h and length > 1.2 * h - 0.1
-    assert reason and f"< 1.0 at L = {length:.1f} m ({length / h:.2f}H)" in reason[0]
+    assert reason and f"< 1.00 at L = {length:.1f} m ({length / h:.2f}H)" in reason[0]
 
 
 def test_extra_check_hook_sizes_the_length() -> None:
@@ -169,7 +169,7 @@ def test_empty_corridor() -> None:
 def test_demo_corridor_screens_under_every_shipped_factor_set() -> None:
     """presets/demo-corridor.toml through the store, then every factor set of the presets."""
     store = pytest.importorskip("screening.store")
-    presets = pytest.importorskip("screening.presets")
+    presets = pytest.importorskip("screening.model.presets")
     corridor = store.load(presets.demo_corridor_path())
     for fs in presets.load_presets().factor_sets.values():
         r = screen(corridor, fs, extra_checks=())  # the built-in checks; plug-ins once below
@@ -185,8 +185,8 @@ def test_demo_corridor_screens_under_every_shipped_factor_set() -> None:
 def test_nominal_layer_strengths_for_plug_ins() -> None:
     """The unfactored strengths a slip-circle check reads: factored ones divided by phi."""
     from screening.engine.arrays import build_arrays
+    from screening.engine.checks.internal import choose_grades, nominal_layer_strengths, prepare
     from screening.engine.context import build_context
-    from screening.engine.internal import choose_grades, nominal_layer_strengths, prepare
 
     ctx = build_context(
         build_arrays(make_corridor([make_segment(0), make_segment(1, reinforcement=GEOGRID)]))
@@ -210,7 +210,7 @@ def test_nominal_layer_strengths_for_plug_ins() -> None:
 
 def test_incomplete_reinforcement_gets_a_clear_message() -> None:
     from screening.engine.samples import STRIP
-    from screening.errors import EngineError
+    from screening.model.errors import EngineError
 
     bad = replace(STRIP, yield_strength_mpa=None)
     with pytest.raises(EngineError, match="steel needs yield_strength_mpa"):

@@ -9,8 +9,8 @@ from __future__ import annotations
 import numpy as np
 
 from screening.engine.arrays import build_arrays
+from screening.engine.checks.internal import prepare
 from screening.engine.context import build_context
-from screening.engine.internal import prepare
 from screening.engine.samples import GEOGRID, GRID, make_corridor, make_segment
 from screening.engine.sizing import PASS_TOL, size_length, sizing_cdr
 from screening.model import Foundation

@@ -13,7 +13,7 @@ def test_plain_wall_is_clear_with_reasons() -> None:
     r = screen(make_corridor([make_segment(0)]), extra_checks=())
     assert r.verdict == ["clear"]
     assert any(x.startswith("every check passes") for x in r.reasons[0])
-    assert any("by rule of thumb" in x for x in r.reasons[0])
+    assert any("by the rule of thumb" in x for x in r.reasons[0])
 
 
 def test_tall_wall_is_marginal() -> None:
@@ -94,4 +94,4 @@ def test_lengthened_wall_is_judged_by_its_length_not_its_sized_cdr() -> None:
     )
     if r.length_m[0] > r.rule_length_m[0] + 1e-9:
         assert not any("little margin" in x for x in r.reasons[0])
-        assert any("lengthened by the checks" in x for x in r.reasons[0])
+        assert any("the shortest length it passes" in x for x in r.reasons[0])

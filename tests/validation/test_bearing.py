@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from screening.engine.pressure import vesic_factors
+from screening.engine.checks.pressure import vesic_factors
 
 TABLE_TOL = 0.01
 

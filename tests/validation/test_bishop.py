@@ -22,9 +22,10 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
-from screening.engine.slip_bishop import SliceForces, bishop_factor, ordinary_factor
-from screening.engine.slip_geometry import SlipLayers, SlipSection, SlipSoils
-from screening.engine.slip_search import FINE, Bounds, search
+from screening.engine.slip.bishop import SliceForces, bishop_factor, ordinary_factor
+from screening.engine.slip.density import FINE
+from screening.engine.slip.geometry import SlipLayers, SlipSection, SlipSoils
+from screening.engine.slip.search import Bounds, search
 
 
 def simple_slope(height_m, run_m, cohesion_kpa, friction_deg, unit_weight_kn_m3, water_m=-1e3):

@@ -13,7 +13,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from screening.engine.corrosion import (
+from screening.engine.checks.corrosion import (
     bar_area_mm2_per_m,
     steel_loss_per_side_mm,
     strip_area_mm2_per_m,

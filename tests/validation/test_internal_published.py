@@ -19,8 +19,7 @@ import numpy as np
 import pytest
 
 from screening.engine.arrays import GEOGRID, GRID, STRIP, build_arrays
-from screening.engine.context import build_context
-from screening.engine.internal import (
+from screening.engine.checks.internal import (
     active_length_m,
     choose_grades,
     grade_capacity_kn_m,
@@ -30,6 +29,7 @@ from screening.engine.internal import (
     pullout_friction,
     pullout_layers,
 )
+from screening.engine.context import build_context
 from screening.engine.samples import ASD, LRFD, make_corridor, make_segment
 from screening.engine.samples import GEOGRID as GEOGRID_FAMILY
 from screening.engine.samples import GRID as GRID_FAMILY

@@ -19,7 +19,7 @@ import numpy as np
 import pytest
 from scipy.optimize import minimize_scalar
 
-from screening.engine.pressure import coulomb_ka, design_friction_deg, rankine_ka
+from screening.engine.checks.pressure import coulomb_ka, design_friction_deg, rankine_ka
 
 TABLE_TOL = 5e-4
 """Published tables print 3-4 decimals."""

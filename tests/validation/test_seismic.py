@@ -18,7 +18,7 @@ import numpy as np
 import pytest
 from scipy.optimize import minimize_scalar
 
-from screening.engine.seismic import (
+from screening.engine.checks.seismic import (
     active_zone_area_m2,
     mononobe_okabe_kae,
     mononobe_okabe_valid,

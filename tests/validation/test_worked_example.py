@@ -30,9 +30,9 @@ import pytest
 
 from screening.engine import screen
 from screening.engine.arrays import build_arrays
+from screening.engine.checks.external import bearing, eccentricity, sliding
+from screening.engine.checks.pressure import rankine_ka
 from screening.engine.context import build_context
-from screening.engine.external import bearing, eccentricity, sliding
-from screening.engine.pressure import rankine_ka
 from screening.engine.samples import ASD, LRFD, STRIP, make_corridor, make_segment
 from screening.model import Fill, Foundation, Rules, Soil
 

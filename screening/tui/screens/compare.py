@@ -1,5 +1,5 @@
 """Two versions of a corridor side by side: per segment, the inputs that changed and how
-the verdict, L, governing check and smallest CDR moved (``screening.diff``).
+the verdict, L, governing check and smallest CDR moved (``screening.corridor.diff``).
 
 The other file is taken as the older version and the open corridor (with its unsaved
 edits) as the newer, so arrows read "other file -> what is open now".
@@ -18,11 +18,12 @@ from textual.containers import VerticalScroll
 from textual.screen import Screen
 from textual.widgets import Footer, Static
 
-from screening.diff import CorridorDiff, SegmentDiff
+from screening.corridor.diff import CorridorDiff, SegmentDiff
+from screening.engine.result import cdr_text
+from screening.model.units import Display
 from screening.tui.cells import VERDICT_STYLE, verdict_text
 from screening.tui.corridor_tools import show_value
 from screening.tui.widgets.title_bar import CautionLine
-from screening.units import Display
 
 STATUS_STYLE = {"added": "green", "removed": "red", "changed": "", "same": "dim"}
 
@@ -71,7 +72,10 @@ def _outcome(d: SegmentDiff, display: Display) -> Text:
         moved = True
     if not math.isclose(o.min_cdr, n.min_cdr, abs_tol=5e-3):
         style = "bold red" if n.min_cdr < 1.0 <= o.min_cdr else ""
-        out.append(("\n" if moved else "") + f"min CDR {o.min_cdr:.2f} → {n.min_cdr:.2f}", style)
+        out.append(
+            ("\n" if moved else "") + f"min CDR {cdr_text(o.min_cdr)} → {cdr_text(n.min_cdr)}",
+            style,
+        )
         moved = True
     if not moved:
         out.append("outcome unchanged (", style="dim")

@@ -14,7 +14,7 @@ from textual.containers import Horizontal
 from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Input, Static
 
-from screening.errors import WallscreenError
+from screening.model.errors import WallscreenError
 from screening.tui.fields import display
 from screening.tui.keys import ACTIONS
 from screening.tui.screens.detail import DetailScreen

@@ -19,13 +19,13 @@ from textual.widgets import Footer, Static
 
 from screening.engine.result import SegmentResult
 from screening.model import Segment
+from screening.model.units import Display
 from screening.tui.cells import SI, traffic_text, verdict_text
 from screening.tui.keys import binding_for
 from screening.tui.widgets.check_table import checks_table, layers_table
 from screening.tui.widgets.cross_section import CrossSection
 from screening.tui.widgets.segment_tools import SegmentTools
 from screening.tui.widgets.title_bar import CautionLine
-from screening.units import Display
 
 Lookup = Callable[[int], tuple[Segment, SegmentResult] | None]
 

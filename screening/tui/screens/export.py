@@ -17,7 +17,7 @@ from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Checkbox, Input, Static
 
-from screening.errors import WallscreenError
+from screening.model.errors import WallscreenError
 from screening.tui.corridor_tools import check_report_path
 
 

@@ -6,7 +6,7 @@ from collections.abc import Callable
 from pathlib import Path
 
 from screening import store
-from screening.errors import InputError, WallscreenError
+from screening.model.errors import InputError, WallscreenError
 from screening.tui.config import load_state, save_state
 from screening.tui.screens.choose import ChooseScreen
 from screening.tui.screens.prompt import PromptScreen

@@ -4,7 +4,7 @@ and lets the corridor screen redraw."""
 
 from __future__ import annotations
 
-from screening.errors import InputError, WallscreenError
+from screening.model.errors import InputError, WallscreenError
 from screening.tui.fields import BY_NAME, FIELDS, display
 from screening.tui.screens.choose import ChooseScreen
 from screening.tui.screens.prompt import PromptScreen

@@ -1,7 +1,7 @@
 """A one-line question: split chainage, file paths. Enter answers, Esc cancels.
 
 An optional ``check`` callable is tried as the user types: when it raises a
-:class:`~screening.errors.WallscreenError`, its message shows under the box and Enter is
+:class:`~screening.model.errors.WallscreenError`, its message shows under the box and Enter is
 refused, so a bad answer never reaches the operation.
 """
 
@@ -17,7 +17,7 @@ from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Input, Static
 
-from screening.errors import WallscreenError
+from screening.model.errors import WallscreenError
 
 
 class PromptScreen(ModalScreen[str | None]):

@@ -13,11 +13,11 @@ from textual.binding import Binding
 from textual.screen import Screen
 from textual.widgets import DataTable, Footer, Static
 
-from screening.quantities import CorridorQuantities
+from screening.corridor.quantities import CorridorQuantities
+from screening.model.units import Display
 from screening.tui.corridor_tools import money, rates_path, reinforcement_words
 from screening.tui.widgets.segment_quantities import placeholder_note
 from screening.tui.widgets.title_bar import CautionLine
-from screening.units import Display
 
 
 def _pairs(title: str, unit_title: str, rows: list[tuple[str, str]], total: bool = False) -> Table:

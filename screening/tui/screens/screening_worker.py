@@ -17,8 +17,8 @@ from textual.worker import get_current_worker
 
 from screening import engine
 from screening.engine.result import CorridorResult
-from screening.errors import WallscreenError
 from screening.model import Corridor
+from screening.model.errors import WallscreenError
 from screening.tui.session import screen_rows
 from screening.tui.widgets.progress_strip import ProgressStrip
 

@@ -14,9 +14,10 @@ from rich.text import Text
 from textual import work
 from textual.worker import get_current_worker
 
-from screening.diff import CorridorDiff
-from screening.errors import WallscreenError
-from screening.quantities import corridor_quantities
+from screening.corridor.diff import CorridorDiff
+from screening.corridor.quantities import corridor_quantities
+from screening.model.errors import WallscreenError
+from screening.model.units import Display
 from screening.report import write_report
 from screening.tui.cells import COLUMNS, column_heading
 from screening.tui.corridor_tools import (
@@ -26,7 +27,6 @@ from screening.tui.corridor_tools import (
     shipped_rates,
 )
 from screening.tui.screens.prompt import PromptScreen
-from screening.units import Display
 
 
 def _problem(err: Exception) -> str:

@@ -5,8 +5,8 @@ from __future__ import annotations
 from rich.table import Table
 from rich.text import Text
 
-from screening.engine.result import SegmentResult
-from screening.units import Display
+from screening.engine.result import SegmentResult, cdr_text
+from screening.model.units import Display
 
 SI = Display("si")
 
@@ -53,7 +53,7 @@ def checks_table(res: SegmentResult, display: Display = SI) -> Table:
             _num(display.value(check.demand, check.unit)),
             _num(display.value(check.capacity, check.unit)),
             Text(display.label(check.unit), style="dim"),
-            Text(f"{check.cdr:.2f}", style=style),
+            Text(cdr_text(check.cdr), style=style),
             Text(status, style=style),
         )
     return table

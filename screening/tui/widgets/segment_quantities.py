@@ -7,9 +7,9 @@ from rich.table import Table
 from rich.text import Text
 from textual.widgets import Static
 
-from screening.quantities import Rates, SegmentQuantities
+from screening.corridor.quantities import Rates, SegmentQuantities
+from screening.model.units import Display
 from screening.tui.corridor_tools import money, reinforcement_words
-from screening.units import Display
 
 
 def placeholder_note(rates: Rates) -> Text:

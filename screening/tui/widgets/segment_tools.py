@@ -6,7 +6,7 @@ from rich.text import Text
 from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 
-from screening.errors import WallscreenError
+from screening.model.errors import WallscreenError
 from screening.tui.corridor_tools import segment_quantities, shipped_rates
 from screening.tui.widgets.segment_quantities import SegmentQuantitiesPanel
 from screening.tui.widgets.sensitivity_list import SensitivityList

@@ -14,13 +14,13 @@ from textual import work
 from textual.widgets import Static
 from textual.worker import get_current_worker
 
+from screening.corridor.sensitivity import Sensitivity
 from screening.engine.result import CorridorResult
-from screening.errors import WallscreenError
 from screening.model import Corridor
-from screening.sensitivity import Sensitivity
+from screening.model.errors import WallscreenError
+from screening.model.units import Display
 from screening.tui.cells import VERDICT_MARK, VERDICT_STYLE
 from screening.tui.corridor_tools import cached_sensitivity, run_sensitivity, sensitivity_key
-from screening.units import Display
 
 SHOWN = 8
 """Inputs listed (the rest move the outcome less)."""

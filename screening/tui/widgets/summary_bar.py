@@ -6,8 +6,8 @@ from textual.widgets import Static
 
 from screening.engine.result import CorridorResult
 from screening.model import Corridor
+from screening.model.units import Display
 from screening.tui.cells import SI, summary_text
-from screening.units import Display
 
 
 class SummaryBar(Static):

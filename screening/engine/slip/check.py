@@ -1,0 +1,303 @@
+"""Compound and global stability of ``n`` wall segments under a factor set (METHOD section 6).
+
+Runs the slip-circle search of :mod:`screening.engine.slip.search` on the cross-sections of
+:mod:`screening.engine.slip.wall` for each load case of the factor set (and, on a foundation
+with cu, short term and long term), and keeps per segment the worst critical circle of each
+family with its CDR. The rules for each kind of factor set are in :mod:`screening.engine.slip.compound`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, fields, replace
+
+import numpy as np
+
+from screening.engine.result import CDR_CAP, BoolArray, FloatArray
+from screening.engine.slip.density import STANDARD, WARM, SearchDensity
+from screening.engine.slip.geometry import Circles, make_slices
+from screening.engine.slip.search import CriticalCircle, SlipSearch, search
+from screening.engine.slip.wall import (
+    Factors,
+    WallSlipInput,
+    wall_grid,
+    wall_layers,
+    wall_section,
+    wall_soils,
+)
+
+
+@dataclass(frozen=True)
+class FamilyCheck:
+    """One family (compound or global) per segment, governing case; (n,) arrays."""
+
+    demand: FloatArray
+    """Driving moment of the critical circle, kN.m/m (with the case's load factors)."""
+    capacity: FloatArray
+    """Factored resisting moment = CDR * demand, kN.m/m."""
+    cdr: FloatArray
+    factor: FloatArray
+    """Bishop F of the critical circle (strengths divided by the case's partial factors)."""
+    case: list[str]
+    centre_x_m: FloatArray
+    centre_y_m: FloatArray
+    radius_m: FloatArray
+    converged: BoolArray
+    found: BoolArray
+    params: FloatArray
+    """(n, 3) search parameters of the critical circle: x_exit, x_entry (m), angle (rad)."""
+
+
+@dataclass(frozen=True)
+class CompoundResult:
+    compound: FamilyCheck
+    global_: FamilyCheck
+
+
+def factor_cases(method: str, cases) -> list[Factors]:
+    """The slip-search cases of a factor set (see the module docstring).
+
+    ``cases`` is a sequence of objects with the LoadCase fields (model or CaseArrays rows).
+    """
+    if method in ("lrfd", "asd"):
+        return [Factors("Service I" if method == "lrfd" else "Service (unfactored)")]
+    out = []
+    for c in cases:
+        if isinstance(c, Factors):
+            out.append(c)
+            continue
+        if "compound" not in getattr(c, "checks", ("compound",)):
+            continue
+        out.append(Factors(c.name, c.ev, c.es, c.ls, c.tan_phi, c.cohesion, c.undrained))
+    return out or [Factors("unfactored")]
+
+
+def _driving_moment(section, soils, circ: CriticalCircle, density, kh) -> FloatArray:
+    """Driving moment (kN.m/m) of each segment's critical circle, with any pseudo-static part."""
+    col = lambda a, fill: np.nan_to_num(a, nan=fill)[:, None]  # noqa: E731
+    circles = Circles(
+        col(circ.x_exit_m, -1.0),
+        col(circ.x_entry_m, 1.0),
+        col(circ.x_exit_m, 0.0),
+        col(circ.x_entry_m, 0.0),
+        col(circ.centre_x_m, 0.0),
+        col(circ.centre_y_m, 10.0),
+        col(circ.radius_m, 10.0),
+        circ.found[:, None],
+    )
+    sl = make_slices(section, soils, circles, density.slices)
+    drive = circles.radius_m * np.sum(sl.weight_kn * sl.sin_a, axis=-1)
+    lever = circles.centre_y_m[..., None] - 0.5 * (sl.base_y_m + sl.top_y_m)
+    drive = drive + kh[:, None] * np.sum(sl.weight_kn * lever, axis=-1)
+    return np.where(circ.found, drive[:, 0], 0.0)
+
+
+def compound_check(
+    inp: WallSlipInput,
+    method: str,
+    resistance: dict[str, float],
+    cases=(),
+    density: SearchDensity = STANDARD,
+    kh: FloatArray | None = None,
+    warm: FloatArray | None = None,
+) -> CompoundResult:
+    """Critical compound and global circles of every segment with their CDR.
+
+    ``resistance`` needs ``compound`` (and ``compound_abutment``, defaulting to it);
+    ``cases`` the factor set's load cases (used by partial-factor sets); ``kh`` an optional
+    pseudo-static horizontal coefficient per segment (n,). ``warm`` (n, k, 3): circles known
+    to be near-critical (the same segments at other lengths; NaN where none); rows with any
+    are refined from them with :data:`WARM` instead of a full search.
+    """
+    n = inp.n
+    phi = np.where(
+        inp.abutment,
+        resistance.get("compound_abutment", resistance["compound"]),
+        resistance["compound"],
+    )
+    layers = wall_layers(inp)
+    drained_rows = np.arange(n)
+    undrained_rows = np.flatnonzero(np.isfinite(inp.found_undrained_kpa))
+    best = {name: _empty(n) for name in ("compound", "global")}
+    for f in factor_cases(method, cases):
+        for undrained, rows in ((False, drained_rows), (True, undrained_rows)):
+            if rows.size == 0:
+                continue
+            sub = inp.take(rows)
+            section = wall_section(sub, f)
+            if undrained:
+                section = replace(section, water_level_m=np.full(rows.size, -np.inf))
+            soils = wall_soils(sub, f, undrained)
+            sub_layers = _take(layers, rows)
+            sub_kh = np.zeros(rows.size) if kh is None else np.asarray(kh, dtype=np.float64)[rows]
+            found = _search_rows(sub, section, soils, sub_layers, density, sub_kh, warm, rows)
+            label = f"{f.name}, {'short term (cu)' if undrained else 'long term'}"
+            if not np.isfinite(inp.found_undrained_kpa).any():
+                label = f.name
+            for name in best:
+                circ = found.family(name)
+                drive = _driving_moment(section, soils, circ, density, sub_kh)
+                _merge(best[name], rows, circ, phi[rows], label, drive)
+    return CompoundResult(_finish(best["compound"]), _finish(best["global"]))
+
+
+def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSearch:
+    """Full search, or a warm refinement on the rows with known circles; merged by row."""
+    grid, bounds = wall_grid(sub, density)
+    known = np.zeros(rows.size, dtype=bool)
+    if warm is not None:
+        good = np.all(np.isfinite(warm[rows]), axis=2)  # (r, k) circles known
+        known = good.any(axis=1)
+        first = np.argmax(good, axis=1)
+        fill = np.take_along_axis(warm[rows], first[:, None, None], 1)
+        warm_rows = np.where(good[..., None], warm[rows], fill)
+    if not known.any():
+        return search(
+            section,
+            soils,
+            layers,
+            grid,
+            bounds,
+            density,
+            kh,
+            start_groups=len(density.exit_fractions),
+        )
+    parts = []
+    for use_warm, pick in ((False, np.flatnonzero(~known)), (True, np.flatnonzero(known))):
+        if pick.size == 0:
+            parts.append((pick, None))
+            continue
+        sec = _take(section, pick)
+        so = _take(soils, pick)
+        lay = _take(layers, pick)
+        b = _take(bounds, pick)
+        if use_warm:
+            h = sub.height_m[pick]
+            steps = np.stack([0.05 * h, 0.05 * h, np.full(pick.size, np.radians(4.0))], axis=-1)
+            seeds = _global_seeds(sub.take(pick))
+            start = np.concatenate([warm_rows[pick], seeds], axis=1)
+            found = search(sec, so, lay, start, b, WARM, kh[pick], initial_steps=steps)
+            # A family lost (every known circle of it changed family with L): full search.
+            # Known circles come in (compound, global) pairs, so odd places are global.
+            had_global = np.any(np.all(np.isfinite(warm[rows][pick, 1::2]), axis=2), axis=1)
+            lost = np.flatnonzero(~found.compound.found | (had_global & ~found.global_.found))
+            if lost.size:
+                again = search(
+                    _take(sec, lost),
+                    _take(so, lost),
+                    _take(lay, lost),
+                    grid[pick][lost],
+                    _take(b, lost),
+                    density,
+                    kh[pick][lost],
+                    start_groups=len(density.exit_fractions),
+                )
+                found = _join(
+                    pick.size,
+                    [
+                        (
+                            np.setdiff1d(np.arange(pick.size), lost),
+                            _take_search(found, np.setdiff1d(np.arange(pick.size), lost)),
+                        ),
+                        (lost, again),
+                    ],
+                )
+        else:
+            found = search(
+                sec,
+                so,
+                lay,
+                grid[pick],
+                b,
+                density,
+                kh[pick],
+                start_groups=len(density.exit_fractions),
+            )
+        parts.append((pick, found))
+    return _join(rows.size, parts)
+
+
+def _global_seeds(inp: WallSlipInput) -> FloatArray:
+    """Four deep circles under the reinforced zone (n, 4, 3), so a warm refinement always has
+    a start in the global family even when the known global circle turned compound."""
+    h, length = inp.height_m, inp.length_m
+    exit_ = np.stack([-0.5 * h] * 2 + [-1.0 * h] * 2, axis=1)
+    entry = np.stack([length + 0.3 * h, length + h] * 2, axis=1)
+    angle = np.broadcast_to(np.radians([80.0, 70.0, 90.0, 80.0]), exit_.shape)
+    return np.stack([exit_, entry, angle], axis=-1)
+
+
+def _take(obj, pick):
+    """A slip dataclass restricted to rows ``pick`` (array fields with a leading row axis)."""
+    return replace(
+        obj,
+        **{
+            f.name: getattr(obj, f.name)[pick]
+            for f in fields(obj)
+            if isinstance(getattr(obj, f.name), np.ndarray)
+        },
+    )
+
+
+def _take_search(found: SlipSearch, pick) -> SlipSearch:
+    return SlipSearch(_take(found.compound, pick), _take(found.global_, pick), found.circles_tried)
+
+
+def _join(n: int, parts) -> SlipSearch:
+    out = {}
+    for fam in ("compound", "global_"):
+        values = {}
+        for key in CriticalCircle.__dataclass_fields__:
+            dtype = bool if key in ("converged", "found") else np.float64
+            values[key] = np.zeros(n, dtype=dtype)
+            for pick, found in parts:
+                if found is not None:
+                    values[key][pick] = getattr(getattr(found, fam), key)
+        out[fam] = CriticalCircle(**values)
+    return SlipSearch(out["compound"], out["global_"], 0)
+
+
+def _empty(n: int) -> dict:
+    return {
+        "cdr": np.full(n, np.inf),
+        "factor": np.full(n, np.inf),
+        "demand": np.zeros(n),
+        "case": np.full(n, "", dtype=object),
+        "centre_x_m": np.full(n, np.nan),
+        "centre_y_m": np.full(n, np.nan),
+        "radius_m": np.full(n, np.nan),
+        "converged": np.ones(n, dtype=bool),
+        "found": np.zeros(n, dtype=bool),
+        "params": np.full((n, 3), np.nan),
+    }
+
+
+def _merge(acc: dict, rows, circ: CriticalCircle, phi, label: str, drive) -> None:
+    cdr = circ.factor * phi
+    worse = cdr < acc["cdr"][rows]
+    idx = rows[worse]
+    acc["cdr"][idx] = cdr[worse]
+    acc["factor"][idx] = circ.factor[worse]
+    acc["demand"][idx] = drive[worse]
+    for key in ("centre_x_m", "centre_y_m", "radius_m", "converged", "found"):
+        acc[key][idx] = getattr(circ, key)[worse]
+    acc["case"][idx] = label
+    params = np.stack([circ.x_exit_m, circ.x_entry_m, circ.angle_rad], axis=-1)
+    acc["params"][idx] = params[worse]
+
+
+def _finish(acc: dict) -> FamilyCheck:
+    cdr = np.clip(np.where(np.isfinite(acc["cdr"]), acc["cdr"], CDR_CAP), 0.0, CDR_CAP)
+    demand = np.clip(acc["demand"], 0.0, None)
+    return FamilyCheck(
+        demand=demand,
+        capacity=cdr * demand,
+        cdr=cdr,
+        factor=acc["factor"],
+        case=acc["case"].tolist(),
+        centre_x_m=acc["centre_x_m"],
+        centre_y_m=acc["centre_y_m"],
+        radius_m=acc["radius_m"],
+        converged=acc["converged"],
+        found=acc["found"],
+        params=acc["params"],
+    )

@@ -1,0 +1,121 @@
+"""The report's assumption tables: the screen's provenance, factor set, rules, and every
+fill, soil and reinforcement family in use with its values."""
+
+from __future__ import annotations
+
+import dataclasses
+
+from screening.model import Fill, Reinforcement
+from screening.report.data import ReportData
+from screening.report.tables import Table
+
+
+def assumptions(data: ReportData) -> list[Table]:
+    c, r = data.corridor, data.result
+    fs = c.factor_set
+    general = Table(
+        "Screen",
+        ["item", "value"],
+        [
+            ["corridor", c.name],
+            ["date of report", data.date],
+            ["engine version", r.engine_version],
+            ["factor set", f"{fs.id}: {fs.name} ({fs.method})"],
+            ["factor set source", fs.source],
+            [
+                "eccentricity limits (fraction of L)",
+                f"soil {fs.eccentricity_limit_soil:g}, rock {fs.eccentricity_limit_rock:g}",
+            ],
+            [
+                "design life",
+                f"{c.design_life_years:g} years"
+                if c.design_life_years
+                else "rules preset (walls / abutments)",
+            ],
+            ["display units", data.display.system.upper()],
+        ],
+    )
+    case_fields = [f.name for f in dataclasses.fields(fs.cases[0])] if fs.cases else []
+    cases = Table(
+        "Load cases of the factor set",
+        case_fields,
+        [[_cell(getattr(case, f)) for f in case_fields] for case in fs.cases],
+    )
+    resistance = Table(
+        "Resistance factors", ["check", "factor"], [[k, f"{v:g}"] for k, v in fs.resistance.items()]
+    )
+    rules = Table(
+        "Screening rules",
+        ["rule", "value"],
+        [[f.name, _cell(getattr(c.rules, f.name))] for f in dataclasses.fields(c.rules)],
+    )
+    return [general, cases, resistance, rules, *_materials(data)]
+
+
+def _materials(data: ReportData) -> list[Table]:
+    """Every distinct fill, soil and reinforcement family the segments use, with values."""
+    c = data.corridor
+    out = []
+    for part, title in (
+        ("fill", "Reinforced fills"),
+        ("retained", "Retained fills"),
+        ("foundation", "Foundations"),
+    ):
+        seen: dict[object, list[str]] = {}
+        for s in c.segments:
+            seen.setdefault(getattr(s, part), []).append(s.id)
+        if not seen:
+            continue
+        sample = next(iter(seen))
+        names = [f.name for f in dataclasses.fields(sample) if f.name not in ("note", "name")]
+        rows = [[*(_cell(getattr(obj, n)) for n in names), _ids(ids)] for obj, ids in seen.items()]
+        out.append(
+            Table(
+                title,
+                [*names, "segments"],
+                rows,
+                "Values as stored in the file (SI, unit in each name).",
+            )
+        )
+    fams: dict[Reinforcement, list[str]] = {}
+    for s in c.segments:
+        fams.setdefault(s.reinforcement, []).append(s.id)
+    for fam, ids in fams.items():
+        names = [f.name for f in dataclasses.fields(fam) if f.name not in ("grades", "note")]
+        rows = [[n, _cell(getattr(fam, n))] for n in names]
+        rows.append(["grades", "; ".join(_grade(g) for g in fam.grades)])
+        rows.append(["segments", _ids(ids)])
+        out.append(
+            Table(f"Reinforcement: {fam.id or fam.name or fam.material}", ["field", "value"], rows)
+        )
+    ranges = Table(
+        "Sensitivity ranges (±)",
+        ["input", "half-range"],
+        [[k, f"{v:g}"] for k, v in data.ranges.items()],
+    )
+    return [*out, ranges]
+
+
+def _grade(g) -> str:
+    values = [
+        f"{f.name} {getattr(g, f.name):g}"
+        for f in dataclasses.fields(g)
+        if isinstance(getattr(g, f.name), float)
+    ]
+    return f"{g.name} ({', '.join(values)})"
+
+
+def _ids(ids: list[str]) -> str:
+    return ", ".join(ids) if len(ids) <= 8 else f"{', '.join(ids[:6])} … ({len(ids)} segments)"
+
+
+def _cell(value: object) -> str:
+    if value is None:
+        return "—"
+    if isinstance(value, float):
+        return f"{value:g}"
+    if isinstance(value, tuple):
+        return ", ".join(str(v) for v in value)
+    if isinstance(value, Fill):
+        return value.id or value.name
+    return str(value)

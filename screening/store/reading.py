@@ -1,0 +1,185 @@
+"""Reading corridor files (schema ``wallscreen/1``) into the model: ``load``, ``loads``,
+``load_with_screen`` and the results a file carries (:class:`StoredScreen`).
+
+Presets and ``[defaults]`` are applied, so the :class:`~screening.model.Corridor` that comes
+back is complete, and any problem is one :class:`~screening.model.errors.InputError` with
+file, line, segment id and field. Results in a file are ignored on load: inputs are the
+only source of truth. Inline tables start from the model's defaults, or from a preset named
+by ``preset``: ``fill = { preset = "granular-wellgraded", friction_deg = 32.0 }``.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import os
+from pathlib import Path
+from typing import Any
+
+from screening import model
+from screening.model.presets import Presets, load_presets, parse_toml, read_text
+from screening.model.schema import SourceMap, Where, build, number, suggest, table
+from screening.model.schema import text as as_text
+from screening.model.validate import (
+    DEFAULT_KEYS,
+    FIELD_NAMES,
+    REQUIRED,
+    check_corridor,
+    check_segment,
+    parse_field,
+    resolve,
+)
+
+TOP_KEYS = ("schema", "screen", "corridor", "defaults", "rules", "segment")
+CORRIDOR_KEYS = ("name", "factor_set", "design_life_years", "note")
+DEFAULT_FACTOR_SET = "aashto-lrfd"
+
+
+def load(path: str | os.PathLike[str], presets: Presets | None = None) -> model.Corridor:
+    """Read and check the corridor file at ``path``."""
+    source = str(path)
+    return loads(read_text(Path(path), source), source, presets)
+
+
+def load_with_screen(
+    path: str | os.PathLike[str], presets: Presets | None = None
+) -> tuple[model.Corridor, StoredScreen | None]:
+    """The corridor at ``path`` and the results it carries from its last save, from one
+    read and one parse (the results are never inputs: they are for comparison only)."""
+    source = str(path)
+    text = read_text(Path(path), source)
+    doc = parse_toml(text, source)
+    return _corridor(doc, text, source, presets), _stored(doc)
+
+
+def loads(text: str, source: str = "<input>", presets: Presets | None = None) -> model.Corridor:
+    """Read and check a corridor from TOML text; ``source`` names it in messages."""
+    return _corridor(parse_toml(text, source), text, source, presets)
+
+
+def _corridor(
+    doc: dict[str, Any], text: str, source: str, presets: Presets | None
+) -> model.Corridor:
+    presets = presets or load_presets()
+    smap = SourceMap(text)
+    root = Where(source, section=("", 0), smap=smap)
+    for key in doc:
+        if key not in TOP_KEYS:
+            raise root.error(key, suggest(key, TOP_KEYS), at_value=False)
+    schema = doc.get("schema")
+    if schema is None:
+        raise root.error("schema", f'missing: the file must start with schema = "{model.SCHEMA}"')
+    if schema != model.SCHEMA:
+        raise root.error(
+            "schema", f'"{schema}" is not a schema this version reads (it reads "{model.SCHEMA}")'
+        )
+
+    cw = Where(source, table="corridor", section=("corridor", 0), smap=smap)
+    if "corridor" not in doc:
+        raise root.error(None, "missing the [corridor] table (name and factor_set)")
+    cor = table(doc["corridor"], "corridor", root)
+    for key in cor:
+        if key not in CORRIDOR_KEYS:
+            raise cw.error(key, suggest(key, CORRIDOR_KEYS), at_value=False)
+    if "name" not in cor:
+        raise cw.error("name", "missing: give the corridor a name")
+    name = as_text(cor["name"], "name", cw, nonempty=True)
+    factor_set = resolve(
+        cor.get("factor_set", DEFAULT_FACTOR_SET),
+        "factor_set",
+        model.FactorSet,
+        presets.factor_sets,
+        "factor set",
+        cw,
+    )
+    life = cor.get("design_life_years")
+    if life is not None:
+        life = number(life, "design_life_years", cw)
+    note = parse_field("note", cor.get("note", ""), cw, presets)
+
+    rw = Where(source, table="rules", section=("rules", 0), smap=smap)
+    rules = build(model.Rules, doc.get("rules", {}), rw, base=presets.rules, inline=False)
+
+    dw = Where(source, table="defaults", section=("defaults", 0), smap=smap)
+    defaults = _defaults(table(doc.get("defaults", {}), "defaults", root), dw, presets)
+
+    raw_segments = doc.get("segment", [])
+    if not isinstance(raw_segments, list):
+        raise root.error("segment", "write each segment as a [[segment]] table")
+    segments, wheres = [], []
+    for i, raw in enumerate(raw_segments):
+        seg, where = _segment(i, raw, defaults, presets, source, smap)
+        segments.append(seg)
+        wheres.append(where)
+    check_corridor(tuple(segments), wheres)
+    return model.Corridor(name, factor_set, defaults, tuple(segments), rules, life, note)
+
+
+def _defaults(tab: dict[str, Any], where: Where, presets: Presets) -> model.Defaults:
+    for key in tab:
+        if key not in DEFAULT_KEYS:
+            raise where.error(key, suggest(key, DEFAULT_KEYS), at_value=False)
+    values = {k: parse_field(k, v, where, presets) for k, v in tab.items()}
+    values.setdefault("fill", presets.fills["granular-wellgraded"])
+    values.setdefault("retained", model.Soil())
+    values.setdefault("foundation", model.Foundation())
+    values.setdefault("reinforcement", presets.reinforcement["steel-strip"])
+    return model.Defaults(**values)
+
+
+def _segment(
+    i: int, raw: Any, defaults: model.Defaults, presets: Presets, source: str, smap: SourceMap
+) -> tuple[model.Segment, Where]:
+    first = Where(source, segment=f"number {i + 1}", section=("segment", i), smap=smap)
+    tab = table(raw, None, first)
+    sid = tab.get("id")
+    label = sid.strip() if isinstance(sid, str) and sid.strip() else f"number {i + 1}"
+    where = dataclasses.replace(first, segment=label)
+    for key in tab:
+        if key not in FIELD_NAMES and key != "result":
+            raise where.error(key, suggest(key, FIELD_NAMES), at_value=False)
+    for key in REQUIRED:
+        if key not in tab:
+            raise where.error(key, f"missing (every segment needs {', '.join(REQUIRED)})")
+    values = {k: parse_field(k, v, where, presets) for k, v in tab.items() if k != "result"}
+    for key in DEFAULT_KEYS:
+        if key not in values and key != "spacing_m":
+            values[key] = getattr(defaults, key)
+    given = "spacing_m" in values
+    if not given:
+        values["spacing_m"] = default_spacing(defaults, values["reinforcement"])
+    seg = model.Segment(**values)
+    check_segment(seg, where, spacing_given=given)
+    return seg, where
+
+
+def default_spacing(defaults: model.Defaults, reinforcement: model.Reinforcement) -> float:
+    return defaults.spacing_m if defaults.spacing_m is not None else reinforcement.spacing_m
+
+
+@dataclasses.dataclass(frozen=True)
+class StoredScreen:
+    """The outcome a file carries from its last save (never an input)."""
+
+    screen: dict[str, Any]
+    """The [screen] table: engine_version, factor_set, date, counts."""
+    results: dict[str, dict[str, Any]]
+    """Each segment's [segment.result] table, by segment id."""
+
+
+def stored_screen(text: str, source: str = "<input>") -> StoredScreen | None:
+    """The results written in a corridor file, to compare with a fresh screen; None when
+    the file has no [screen] table. Only the TOML syntax is checked here."""
+    return _stored(parse_toml(text, source))
+
+
+def _stored(doc: dict[str, Any]) -> StoredScreen | None:
+    if not isinstance(doc.get("screen"), dict):
+        return None
+    results = {
+        seg["id"]: seg["result"]
+        for seg in doc.get("segment", [])
+        if isinstance(seg, dict)
+        and isinstance(seg.get("id"), str)
+        and isinstance(seg.get("result"), dict)
+    }
+    return StoredScreen(doc["screen"], results)
