@@ -27,7 +27,7 @@ from screening.engine.mechanism.section import (
     SoilStrength,
     wall_problem,
 )
-from screening.errors import EngineError, InputError
+from screening.model.errors import EngineError, InputError
 
 
 def _wall(**kw) -> MechanismSection:

@@ -28,8 +28,9 @@ import pytest
 from screening.engine.mechanism.reference_problems import footing_problem, slope_problem
 from screening.engine.mechanism.section import MechanismLayer, MechanismSection, SoilStrength
 from screening.engine.mechanism.solve import load_factor, strength_factor
-from screening.engine.slip_geometry import SlipLayers, SlipSection, SlipSoils
-from screening.engine.slip_search import FINE, Bounds, search
+from screening.engine.slip.density import FINE
+from screening.engine.slip.geometry import SlipLayers, SlipSection, SlipSoils
+from screening.engine.slip.search import Bounds, search
 
 PRANDTL_NC = 2.0 + math.pi
 MARTIN_NGAMMA_30_ROUGH = 14.75

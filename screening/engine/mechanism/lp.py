@@ -33,7 +33,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from screening.errors import EngineError
+from screening.model.errors import EngineError
 
 NO_MECHANISM_COST = 1e7
 """Cost M of the artificial column (lambda at or above it: no mechanism)."""

@@ -26,7 +26,7 @@ from screening.engine.mechanism.problem import (
     Refinement,
     SurfaceLoad,
 )
-from screening.errors import InputError
+from screening.model.errors import InputError
 
 BENCH_M = 1.2
 """Level bench in front of the face before a toe slope [mem, AASHTO C11.10.2.2, as in the

@@ -17,7 +17,7 @@ from screening.engine.mechanism.layout import Layout, build_layout, columns
 from screening.engine.mechanism.lp import Outcome, solve_highs, solve_scipy
 from screening.engine.mechanism.problem import DEAD, FOOTING, LIVE, WEIGHT, Problem
 from screening.engine.mechanism.section import MechanismSection, wall_problem
-from screening.errors import EngineError
+from screening.model.errors import EngineError
 
 UPPER_BOUND_NOTE = (
     "mechanism check: upper bound (unsafe side); the true factor may be lower. "
