@@ -131,7 +131,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         args = _tui_parser().parse_args(args_list)
         return commands.open_tui(args.file)
     except WallscreenError as err:
-        print(f"wallscreen: {err}", file=sys.stderr)
+        for line in str(err).splitlines() or [""]:
+            print(f"wallscreen: {line}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         return 130

@@ -20,11 +20,15 @@ def _load_and_screen(path: Path, factor_set_id: str | None):
     from dataclasses import replace
 
     from screening import store
+    from screening.cli.corridor_checks import layout_warnings, require_segments
     from screening.engine import screen
     from screening.model.errors import InputError
     from screening.model.presets import load_presets
 
     corridor, stored = store.load_with_screen(path)
+    require_segments(path, corridor)
+    for line in layout_warnings(path, corridor):
+        print(f"wallscreen: warning: {line}", file=sys.stderr)
     if factor_set_id:
         sets = load_presets().factor_sets
         if factor_set_id not in sets:

@@ -15,7 +15,7 @@ from __future__ import annotations
 import importlib
 import importlib.util
 from collections.abc import Generator, Sequence
-from dataclasses import replace
+from dataclasses import fields, replace
 
 import numpy as np
 
@@ -23,7 +23,7 @@ from screening import __version__
 from screening.engine.arrays import SegmentArrays, build_arrays
 from screening.engine.checks.corrosion import steel_loss_per_side_mm
 from screening.engine.checks.internal import prepare, pullout_layers
-from screening.engine.combine import concat, merge
+from screening.engine.combine import concat, merge, take
 from screening.engine.context import (
     CheckValues,
     ExtraCheck,
@@ -102,8 +102,25 @@ def screen_iter(
 def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> CorridorResult:
     """The engine proper, on inputs already turned into arrays: the screen, then a closer
     spacing on the segments whose layers are too weak at any length and grade."""
+    if a.n == 0:
+        return _empty_screen(a, extras)
     result = _screen_once(a, extras)
     return closer_spacing(a, result, lambda sub, words: _screen_once(sub, extras, words))
+
+
+def _empty_screen(a: SegmentArrays, extras: Sequence[ExtraCheck]) -> CorridorResult:
+    """The screen of no segments, with every check and extras key a screen of one has: one
+    sample segment is screened under the same factor set and rules, and its row dropped
+    (the plug-in checks name their keys only when they have a row to report)."""
+    from screening.engine.samples import make_corridor, make_segment
+
+    one = build_arrays(make_corridor([make_segment()]))
+    rows = {}
+    for f in fields(SegmentArrays):
+        value = getattr(a, f.name)
+        if isinstance(value, np.ndarray | list) and len(value) == 0:
+            rows[f.name] = getattr(one, f.name)
+    return take(screen_arrays(replace(a, n=1, **rows), extras), [])
 
 
 def _screen_once(

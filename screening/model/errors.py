@@ -63,3 +63,34 @@ class EngineError(WallscreenError):
     """A computation that could not finish (e.g. an iteration that did not converge)."""
 
     title = "Screening failed"
+
+
+class InputErrors(InputError):
+    """Several problems found at once (overlaps along a wall): one line each.
+
+    ``str()`` is one located line per problem, the first ``limit`` of them, then a line with
+    how many more; the attributes of the first problem are the error's own.
+    """
+
+    def __init__(self, errors: list[InputError], *, limit: int = 5) -> None:
+        if not errors:
+            raise ValueError("InputErrors needs at least one error")
+        self.errors = list(errors)
+        self.limit = limit
+        first = self.errors[0]
+        super().__init__(
+            first.message,
+            file=first.file,
+            line=first.line,
+            column=first.column,
+            segment=first.segment,
+            field=first.field,
+            table=first.table,
+        )
+
+    def __str__(self) -> str:
+        lines = [InputError.__str__(e) for e in self.errors[: self.limit]]
+        more = len(self.errors) - self.limit
+        if more > 0:
+            lines.append(f"... and {more} more ({len(self.errors)} in all)")
+        return "\n".join(lines)

@@ -330,6 +330,8 @@ class Defaults:
     seismic_kh: float = 0.0
     water_in_fill: bool = False
     arrangement: Arrangement = "single"
+    wall: str | None = None
+    """Wall of the segments that name none; None: the corridor's name."""
 
 
 @dataclass(frozen=True)
@@ -344,3 +346,8 @@ class Corridor:
     design_life_years: float | None = None
     """None: 75 years for walls, 100 for abutments (rules preset)."""
     note: str = ""
+
+    @property
+    def default_wall(self) -> str:
+        """Wall of a segment that names none: ``[defaults] wall``, else the corridor's name."""
+        return self.defaults.wall if self.defaults.wall is not None else self.name.strip()

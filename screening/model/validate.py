@@ -52,8 +52,9 @@ SEGMENT_FIELDS: tuple[FieldInfo, ...] = (
 """Editable segment inputs in the order a form shows them (names are Segment fields)."""
 
 FIELD_NAMES = tuple(f.name for f in SEGMENT_FIELDS)
-REQUIRED = ("id", "wall", "chainage_start_m", "chainage_end_m", "height_start_m", "height_end_m")
-"""Keys every [[segment]] must give; the rest come from [defaults]."""
+REQUIRED = ("id", "chainage_start_m", "chainage_end_m", "height_start_m", "height_end_m")
+"""Keys every [[segment]] must give; the rest come from [defaults] (``wall``: from
+``[defaults] wall``, else the corridor's name)."""
 DEFAULT_KEYS = tuple(f.name for f in model.Defaults.__dataclass_fields__.values())
 """Keys a [defaults] table may hold (and a segment may override)."""
 
@@ -165,8 +166,8 @@ def check_segment(
         )
 
 
-def check_corridor(segments: tuple[model.Segment, ...], wheres: list[Where]) -> None:
-    """Unique ids, and no two segments of one wall overlapping in chainage."""
+def check_unique_ids(segments: tuple[model.Segment, ...], wheres: list[Where]) -> None:
+    """Every segment id used once (what a corridor file must hold to load)."""
     seen: dict[str, int] = {}
     for i, seg in enumerate(segments):
         if seg.id in seen:
@@ -176,6 +177,12 @@ def check_corridor(segments: tuple[model.Segment, ...], wheres: list[Where]) -> 
                 f"{seen[seg.id] + 1}; ids must be unique",
             )
         seen[seg.id] = i
+
+
+def check_corridor(segments: tuple[model.Segment, ...], wheres: list[Where]) -> None:
+    """Unique ids, and no two segments of one wall overlapping in chainage (for an edit;
+    a file with overlaps still loads: ``screening.corridor.layout`` finds them all)."""
+    check_unique_ids(segments, wheres)
     by_wall: dict[str, list[int]] = {}
     for i, seg in enumerate(segments):
         by_wall.setdefault(seg.wall, []).append(i)

@@ -116,7 +116,7 @@ def segments_from_lines(
     common = {
         f.name: getattr(defaults, f.name)
         for f in dataclasses.fields(Defaults)
-        if f.name != "spacing_m"
+        if f.name not in ("spacing_m", "wall")  # the wall comes from the profile
     }
     codes: dict[str, str] = {}
     seen: set[tuple[str, str]] = set()

@@ -23,8 +23,8 @@ from screening.model.validate import (
     DEFAULT_KEYS,
     FIELD_NAMES,
     REQUIRED,
-    check_corridor,
     check_segment,
+    check_unique_ids,
     parse_field,
     resolve,
 )
@@ -101,16 +101,17 @@ def _corridor(
 
     dw = Where(source, table="defaults", section=("defaults", 0), smap=smap)
     defaults = _defaults(table(doc.get("defaults", {}), "defaults", root), dw, presets)
+    wall = defaults.wall if defaults.wall is not None else name.strip()
 
     raw_segments = doc.get("segment", [])
     if not isinstance(raw_segments, list):
         raise root.error("segment", "write each segment as a [[segment]] table")
     segments, wheres = [], []
     for i, raw in enumerate(raw_segments):
-        seg, where = _segment(i, raw, defaults, presets, source, smap)
+        seg, where = _segment(i, raw, defaults, wall, presets, source, smap)
         segments.append(seg)
         wheres.append(where)
-    check_corridor(tuple(segments), wheres)
+    check_unique_ids(tuple(segments), wheres)
     return model.Corridor(name, factor_set, defaults, tuple(segments), rules, life, note)
 
 
@@ -127,7 +128,13 @@ def _defaults(tab: dict[str, Any], where: Where, presets: Presets) -> model.Defa
 
 
 def _segment(
-    i: int, raw: Any, defaults: model.Defaults, presets: Presets, source: str, smap: SourceMap
+    i: int,
+    raw: Any,
+    defaults: model.Defaults,
+    wall: str,
+    presets: Presets,
+    source: str,
+    smap: SourceMap,
 ) -> tuple[model.Segment, Where]:
     first = Where(source, segment=f"number {i + 1}", section=("segment", i), smap=smap)
     tab = table(raw, None, first)
@@ -142,8 +149,9 @@ def _segment(
             raise where.error(key, f"missing (every segment needs {', '.join(REQUIRED)})")
     values = {k: parse_field(k, v, where, presets) for k, v in tab.items() if k != "result"}
     for key in DEFAULT_KEYS:
-        if key not in values and key != "spacing_m":
+        if key not in values and key not in ("spacing_m", "wall"):
             values[key] = getattr(defaults, key)
+    values.setdefault("wall", wall)
     given = "spacing_m" in values
     if not given:
         values["spacing_m"] = default_spacing(defaults, values["reinforcement"])

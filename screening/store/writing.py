@@ -110,7 +110,8 @@ def _document(corridor: model.Corridor, result: Any, presets: Presets) -> dict[s
     if rules:
         doc["rules"] = rules
     doc["segment"] = [
-        _segment_table(s, d, presets, result, rows.get(s.id)) for s in corridor.segments
+        _segment_table(s, d, corridor.default_wall, presets, result, rows.get(s.id))
+        for s in corridor.segments
     ]
     if result is not None:
         # Quantities travel with the outcome so the design team sees them in the file.
@@ -123,13 +124,21 @@ def _document(corridor: model.Corridor, result: Any, presets: Presets) -> dict[s
 
 
 def _segment_table(
-    seg: model.Segment, d: model.Defaults, presets: Presets, result: Any, row: int | None
+    seg: model.Segment,
+    d: model.Defaults,
+    wall: str,
+    presets: Presets,
+    result: Any,
+    row: int | None,
 ) -> dict[str, Any]:
     out: dict[str, Any] = {}
     for name in FIELD_NAMES:
         value = getattr(seg, name)
         if name in REQUIRED:
             out[name] = value
+        elif name == "wall":
+            if value != wall:
+                out[name] = value
         elif name == "spacing_m":
             if value != default_spacing(d, seg.reinforcement):
                 out[name] = value

@@ -99,14 +99,21 @@ OPTIONAL = {
     "water_in_fill": st.booleans(),
     "arrangement": st.sampled_from(["single", "tiered", "back-to-back"]),
 }
-defaults = st.builds(model.Defaults, spacing_m=st.none() | num(0, 2, open_lo=True), **OPTIONAL)
+defaults = st.builds(
+    model.Defaults,
+    spacing_m=st.none() | num(0, 2, open_lo=True),
+    wall=st.none() | names,
+    **OPTIONAL,
+)
 
 
 @st.composite
 def corridors(draw) -> model.Corridor:
     d = draw(defaults)
+    name = draw(names)
     ids = draw(st.lists(names, max_size=6, unique=True))
-    walls = draw(st.lists(names, min_size=1, max_size=3))
+    # the wall a segment that names none is on ([defaults] wall, else the corridor's name)
+    walls = [*draw(st.lists(names, min_size=1, max_size=3)), d.wall or name]
     start = draw(num(-1e4, 1e4))
     segments = []
     for sid in ids:
@@ -135,7 +142,7 @@ def corridors(draw) -> model.Corridor:
         )
         start = end
     return model.Corridor(
-        name=draw(names),
+        name=name,
         factor_set=draw(factor_sets),
         defaults=d,
         segments=tuple(segments),
