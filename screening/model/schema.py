@@ -13,6 +13,7 @@ take the singular: ``grade`` for ``Reinforcement.grades`` and ``case`` for
 from __future__ import annotations
 
 import dataclasses
+import datetime
 import difflib
 import math
 import types
@@ -51,6 +52,15 @@ class Range:
     unit: str = ""
     lo_open: bool = False
     hi_open: bool = False
+
+    def words(self) -> str:
+        """The valid interval in words: ``between 0 and 30 m``."""
+        u = f" {self.unit}" if self.unit else ""
+        if not self.lo_open and not self.hi_open:
+            return f"between {self.lo:g} and {self.hi:g}{u}"
+        lo = f"greater than {self.lo:g}" if self.lo_open else f"at least {self.lo:g}"
+        hi = f"below {self.hi:g}" if self.hi_open else f"at most {self.hi:g}"
+        return f"{lo} and {hi}{u}"
 
     def problem(self, v: float) -> str | None:
         """Words for what is wrong with ``v``, or None when it is valid."""
@@ -165,6 +175,8 @@ def describe(value: Any) -> str:
         return "a table"
     if isinstance(value, list):
         return "an array"
+    if isinstance(value, datetime.date | datetime.time):
+        return f"a date or time ({value.isoformat()})"
     return type(value).__name__
 
 
@@ -182,9 +194,10 @@ def number(value: Any, name: str, where: Where, rng: Range | None = None) -> flo
     if isinstance(value, bool) or not isinstance(value, int | float):
         raise where.error(name, f"expected a number, got {describe(value)}")
     v = float(value)
+    rng = rng or RANGES.get(name, DEFAULT_RANGE)
     if not math.isfinite(v):
-        raise where.error(name, f"expected a finite number, got {value}")
-    problem = (rng or RANGES.get(name, DEFAULT_RANGE)).problem(v)
+        raise where.error(name, f"expected a finite number {rng.words()}, got {value}")
+    problem = rng.problem(v)
     if problem:
         raise where.error(name, problem)
     return v
