@@ -30,6 +30,7 @@ from screening.model.validate import (
     parse_field,
     resolve,
 )
+from screening.store.safe_write import remove_stale_temps
 
 TOP_KEYS = ("schema", "screen", "corridor", "defaults", "rules", "segment")
 CORRIDOR_KEYS = ("name", "factor_set", "design_life_years", "note")
@@ -39,6 +40,7 @@ DEFAULT_FACTOR_SET = "aashto-lrfd"
 def load(path: str | os.PathLike[str], presets: Presets | None = None) -> model.Corridor:
     """Read and check the corridor file at ``path``."""
     source = str(path)
+    remove_stale_temps(path)
     return loads(read_text(Path(path), source), source, presets)
 
 
@@ -48,6 +50,7 @@ def load_with_screen(
     """The corridor at ``path`` and the results it carries from its last save, from one
     read and one parse (the results are never inputs: they are for comparison only)."""
     source = str(path)
+    remove_stale_temps(path)
     text = read_text(Path(path), source)
     doc = parse_corridor_toml(text, source)
     return _corridor(doc, text, source, presets), _stored(doc)

@@ -8,22 +8,19 @@ truncates it. ``loads(dumps(x)) == x``.
 
 from __future__ import annotations
 
-import contextlib
 import dataclasses
 import datetime
 import os
-import shutil
-import tempfile
 from pathlib import Path
 from typing import Any
 
 from screening import model
 from screening.engine.result import cdr_cut
-from screening.model.errors import InputError
 from screening.model.presets import Presets, load_presets
 from screening.model.schema import SINGULARS, differences
 from screening.model.validate import DEFAULT_KEYS, FIELD_NAMES, REQUIRED
 from screening.store.reading import default_spacing
+from screening.store.safe_write import write_atomic
 from screening.store.toml_layout import dumps_document, to_builtin
 
 HEADER = (
@@ -176,36 +173,7 @@ def save(
 ) -> Path:
     """Write the corridor file atomically; the previous file is kept as ``<name>.bak``.
 
-    The text is made before the file is touched, so a failure never truncates it.
+    The text is made before the file is touched, so a failure never truncates it; a crash
+    at any moment leaves the old file or the new one (:mod:`screening.store.safe_write`).
     """
-    path = Path(path)
-    text = dumps(corridor, result, presets)
-    try:
-        fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
-    except OSError as err:
-        raise InputError(f"cannot write here ({err.strerror})", file=str(path)) from None
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as f:
-            f.write(text)
-            f.flush()
-            os.fsync(f.fileno())
-        if path.exists():
-            os.chmod(tmp, path.stat().st_mode & 0o777)
-            if backup:
-                shutil.copy2(path, path.with_name(path.name + ".bak"))
-        else:
-            umask = os.umask(0)
-            os.umask(umask)
-            os.chmod(tmp, 0o666 & ~umask)
-        os.replace(tmp, path)
-    except BaseException as err:
-        with contextlib.suppress(FileNotFoundError):
-            os.unlink(tmp)
-        if isinstance(err, OSError):
-            raise InputError(f"cannot save ({err.strerror or err})", file=str(path)) from None
-        raise
-    with contextlib.suppress(OSError):
-        dfd = os.open(path.parent, os.O_DIRECTORY)
-        os.fsync(dfd)
-        os.close(dfd)
-    return path
+    return write_atomic(path, dumps(corridor, result, presets), backup=backup)
