@@ -94,7 +94,7 @@ def parse_toml(text: str, source: str) -> dict[str, Any]:
             if repeat:
                 name, line, column, first = repeat[0]
                 msg = f"{name} is given twice (first on line {first})"
-        lines = text.splitlines()
+        lines = text.split("\n")  # TOML's line ends, not str.splitlines's
         here = lines[line - 1] if line is not None and 0 < line <= len(lines) else ""
         if here.count("{") > here.count("}"):
             msg = "Unclosed inline table"

@@ -16,9 +16,12 @@ from typing import Any
 
 from screening import model
 from screening.engine.result import cdr_cut
+from screening.model.errors import InputError
 from screening.model.presets import Presets, load_presets
 from screening.model.schema import SINGULARS, differences
+from screening.model.textfile import read_text
 from screening.model.validate import DEFAULT_KEYS, FIELD_NAMES, REQUIRED
+from screening.store.comments import carry_comments
 from screening.store.reading import default_spacing
 from screening.store.safe_write import write_atomic
 from screening.store.toml_layout import dumps_document, to_builtin
@@ -157,10 +160,23 @@ def _segment_table(
     return out
 
 
-def dumps(corridor: model.Corridor, result: Any = None, presets: Presets | None = None) -> str:
-    """The corridor (and, given, its screen) as the text of a corridor file."""
+def dumps(
+    corridor: model.Corridor,
+    result: Any = None,
+    presets: Presets | None = None,
+    *,
+    comments_from: str | None = None,
+) -> str:
+    """The corridor (and, given, its screen) as the text of a corridor file.
+
+    ``comments_from``: the text of an earlier version of the file, whose comments are carried
+    into the new text beside the same keys (:mod:`screening.store.comments`).
+    """
     presets = presets or load_presets()
-    return HEADER + "\n" + dumps_document(to_builtin(_document(corridor, result, presets)))
+    text = HEADER + "\n" + dumps_document(to_builtin(_document(corridor, result, presets)))
+    if comments_from:
+        text = carry_comments(comments_from, text, HEADER)
+    return text
 
 
 def save(
@@ -170,10 +186,25 @@ def save(
     presets: Presets | None = None,
     *,
     backup: bool = True,
+    comments_from: str | os.PathLike[str] | None = None,
 ) -> Path:
     """Write the corridor file atomically; the previous file is kept as ``<name>.bak``.
 
-    The text is made before the file is touched, so a failure never truncates it; a crash
-    at any moment leaves the old file or the new one (:mod:`screening.store.safe_write`).
+    The comments of the file being replaced are kept (or those of ``comments_from``, a
+    corridor file's path: for a "save as" from the file that was opened). The text is made
+    before the file is touched, so a failure never truncates it; a crash at any moment
+    leaves the old file or the new one (:mod:`screening.store.safe_write`).
     """
-    return write_atomic(path, dumps(corridor, result, presets), backup=backup)
+    old = _old_text(Path(comments_from if comments_from is not None else path))
+    text = dumps(corridor, result, presets, comments_from=old)
+    return write_atomic(path, text, backup=backup)
+
+
+def _old_text(path: Path) -> str | None:
+    """The text of the file a save replaces, for its comments; None when there is none."""
+    try:
+        if not path.is_file():
+            return None
+        return read_text(path)
+    except (InputError, OSError):
+        return None  # unreadable or not text: nothing to carry, the save goes on
