@@ -99,7 +99,7 @@ RANGES: dict[str, Range] = {
     "bars_per_m": Range(0.0, 50.0, "per m", lo_open=True),
     "bar_diameter_mm": Range(0.0, 100.0, "mm", lo_open=True),
     "mass_kg_m2": Range(0.0, 50.0, "kg/m2", lo_open=True),
-    "spacing_m": Range(0.0, 2.0, "m", lo_open=True),
+    "spacing_m": Range(0.2, 2.0, "m"),  # the engine's closest spacing (engine.spacing)
     "scale_effect_alpha": Range(0.0, 1.5, lo_open=True),
     "rf_installation": Range(1.0, 20.0),
     "rf_creep": Range(1.0, 20.0),
@@ -135,6 +135,14 @@ RANGES: dict[str, Range] = {
     "design_life_years": Range(0.0, 200.0, "years", lo_open=True),
 }
 """Valid range of every number, by field name (the same name means the same quantity)."""
+
+CLASS_RANGES: dict[tuple[type, str], Range] = {
+    # A reinforced fill is a frictional fill: pullout's F* scales with tan(phi) of the fill,
+    # so phi = 0 has no meaning there [cp: select fills are 30-40 degrees; 15 is far below
+    # any fill a wall is built with, and marginal fills are referred anyway].
+    (model.Fill, "friction_deg"): Range(15.0, 50.0, "degrees"),
+}
+"""Ranges that differ for one model class from the field name's own (by class, field)."""
 
 DEFAULT_RANGE = Range(0.0, 1e6)
 """Numbers not listed above (the screening rules) must be non-negative."""
@@ -332,6 +340,8 @@ def build(
             out[name] = resistance(raw, name, where, base.resistance)
         elif name == "id":
             out[name] = text(raw, name, where, nonempty=True)
+        elif (cls, name) in CLASS_RANGES:
+            out[name] = number(raw, key, where, CLASS_RANGES[(cls, name)])
         else:
             out[name] = convert(raw, kinds[name], key, where)
     out.update(extra or {})

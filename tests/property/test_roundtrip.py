@@ -33,13 +33,13 @@ fills = st.one_of(
     st.builds(
         lambda f, phi, cu: replace(f, friction_deg=phi, uniformity_coefficient=cu),
         st.sampled_from(list(P.fills.values())),
-        num(0, 50),
+        num(15, 50),
         num(1, 1000),
     ),
     st.builds(
         model.Fill,
         num(10, 30),
-        num(0, 50),
+        num(15, 50),
         num(0, 500),
         num(1, 1000),
         num(0, 100),
@@ -64,7 +64,7 @@ reinforcements = st.one_of(
     st.builds(
         lambda r, sv, k: replace(r, spacing_m=sv, grades=r.grades[: max(1, k)]),
         st.sampled_from(list(P.reinforcement.values())),
-        num(0, 2, open_lo=True),
+        num(0.2, 2),
         st.integers(1, 6),
     ),
 )
@@ -76,7 +76,7 @@ factor_sets = st.one_of(
         ),
         st.sampled_from(list(P.factor_sets.values())),
         num(0, 0.5, open_lo=True),
-        num(0, 2, open_lo=True),
+        num(0.2, 2),
     ),
 )
 rules = st.builds(
@@ -102,7 +102,7 @@ OPTIONAL = {
 }
 defaults = st.builds(
     model.Defaults,
-    spacing_m=st.none() | num(0, 2, open_lo=True),
+    spacing_m=st.none() | num(0.2, 2),
     wall=st.none() | names,
     **OPTIONAL,
 )
@@ -121,7 +121,7 @@ def corridors(draw) -> model.Corridor:
         values = {k: getattr(d, k) for k in OPTIONAL}
         for key in draw(st.sets(st.sampled_from(sorted(OPTIONAL)))):
             values[key] = draw(OPTIONAL[key])
-        spacing = draw(st.none() | num(0, 2, open_lo=True))
+        spacing = draw(st.none() | num(0.2, 2))
         if spacing is None:
             spacing = d.spacing_m if d.spacing_m is not None else values["reinforcement"].spacing_m
         end = start + draw(num(0.5, 200))
