@@ -147,3 +147,10 @@ def test_a_deleted_segment_takes_its_own_comments_only() -> None:
     assert store.loads(out, "out.toml") == edited
     assert "# tested" not in out
     assert "# at the gantry" in out and out.rstrip().endswith("# the last words of the file")
+
+
+def test_a_new_corridor_over_an_old_file_takes_none_of_its_comments(tmp_path: Path) -> None:
+    path = tmp_path / "ramp.toml"
+    path.write_text(TRAIL, encoding="utf-8")
+    store.save(path, store.loads(TRAIL, "ramp.toml"), keep_comments=False)
+    assert "#" not in path.read_text(encoding="utf-8").replace(HEADER, "").replace("#3", "")

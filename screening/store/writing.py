@@ -187,15 +187,18 @@ def save(
     *,
     backup: bool = True,
     comments_from: str | os.PathLike[str] | None = None,
+    keep_comments: bool = True,
 ) -> Path:
     """Write the corridor file atomically; the previous file is kept as ``<name>.bak``.
 
     The comments of the file being replaced are kept (or those of ``comments_from``, a
-    corridor file's path: for a "save as" from the file that was opened). The text is made
+    corridor file's path: for a "save as" from the file that was opened; ``keep_comments=False``
+    when a different corridor replaces the file). The text is made
     before the file is touched, so a failure never truncates it; a crash at any moment
     leaves the old file or the new one (:mod:`screening.store.safe_write`).
     """
-    old = _old_text(Path(comments_from if comments_from is not None else path))
+    source = Path(comments_from if comments_from is not None else path)
+    old = _old_text(source) if keep_comments else None
     text = dumps(corridor, result, presets, comments_from=old)
     return write_atomic(path, text, backup=backup)
 
