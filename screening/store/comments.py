@@ -19,7 +19,8 @@ from __future__ import annotations
 
 import re
 import tomllib
-from dataclasses import dataclass, field
+from array import array
+from dataclasses import dataclass
 
 _TOKEN = re.compile(r'"""|\'\'\'|"(?:[^"\\\n]|\\.)*"|\'[^\'\n]*\'|#|[\[\]{}]')
 _HEADER = re.compile(r"^\s*(\[\[?)\s*([^\]#]+?)\s*\]\]?")
@@ -27,7 +28,7 @@ _KEY = re.compile(r"""^\s*([A-Za-z0-9_\-]+|"[^"]*"|'[^']*')\s*(?:\.[^=]*)?=""")
 _CORRIDOR = re.compile(r'^\s*schema\s*=\s*"wallscreen/', re.MULTILINE)
 
 
-@dataclass
+@dataclass(slots=True)
 class _Block:
     """Lines from one table header to the next (the keys before any header: section "")."""
 
@@ -36,15 +37,39 @@ class _Block:
     """Index of the [[segment]] the block belongs to (-1: none)."""
     repeat: int
     """Count of this header before it, within its segment or the file."""
-    before: list[str] = field(default_factory=list)
+    before: list[str] | None = None
     """Comment lines just above the header."""
     trail: str | None = None
     """Comment after the header on its line."""
-    keys: dict[str, list[str]] = field(default_factory=dict)
+    keys: dict[str, list[str]] | None = None
     """Comment lines above each key (and inside its multi-line value)."""
-    trails: dict[str, str] = field(default_factory=dict)
+    trails: dict[str, str] | None = None
     """Comment after each key's value."""
     seg_id: str | None = None
+
+
+class _Lines:
+    """Per line of a text: its block, its key (or None) and whether it holds the key's
+    whole value, in compact arrays (a tuple per line costs six times more: 100,000
+    segments are millions of lines)."""
+
+    __slots__ = ("block", "key", "whole")
+
+    def __init__(self) -> None:
+        self.block = array("i")
+        self.key: list[str | None] = []
+        self.whole = bytearray()
+
+    def append(self, item: tuple[int, str | None, bool]) -> None:
+        self.block.append(item[0])
+        self.key.append(item[1])
+        self.whole.append(item[2])
+
+    def __iter__(self):
+        return zip(self.block, self.key, map(bool, self.whole), strict=True)
+
+    def __len__(self) -> int:
+        return len(self.key)
 
 
 @dataclass
@@ -52,7 +77,7 @@ class _Scan:
     blocks: list[_Block]
     end: list[str]
     """Comment lines after the last key of the file."""
-    lines: list[tuple[int, str | None, bool]]
+    lines: _Lines
     """Per line: block index, key (None for a header or any other line), and whether the
     line holds the key's whole value (a comment may follow it on the line)."""
     heads: set[int]
@@ -105,7 +130,7 @@ def _section(raw: str) -> str:
 
 def _scan(text: str, skip: frozenset[str] = frozenset()) -> _Scan:
     blocks = [_Block("", -1, 0)]
-    lines: list[tuple[int, str | None, bool]] = []
+    lines = _Lines()
     heads: set[int] = set()
     segment_ids: list[str | None] = []
     repeats: dict[tuple[str, int], int] = {}
@@ -118,6 +143,7 @@ def _scan(text: str, skip: frozenset[str] = frozenset()) -> _Scan:
         if state is not None or depth > 0:  # inside a value that started on an earlier line
             state, depth, col = _lex(line, state, depth)
             if col is not None and key is not None:
+                block.keys = block.keys or {}
                 block.keys.setdefault(key, []).append(line[col:].rstrip())
             lines.append((len(blocks) - 1, None, False))
             continue
@@ -140,7 +166,7 @@ def _scan(text: str, skip: frozenset[str] = frozenset()) -> _Scan:
             seg = len(segment_ids) - 1 if section.split(".")[0] == "segment" else -1
             count = repeats.get((section, seg), 0)
             repeats[(section, seg)] = count + 1
-            block = _Block(section, seg, count, before=pending)
+            block = _Block(section, seg, count, before=pending or None)
             blocks.append(block)
             pending = []
             _, _, col = _lex(line[head.end() :], None, 0)
@@ -156,9 +182,11 @@ def _scan(text: str, skip: frozenset[str] = frozenset()) -> _Scan:
             lines.append((len(blocks) - 1, None, False))
             continue
         if pending:
+            block.keys = block.keys or {}
             block.keys.setdefault(key, []).extend(pending)
             pending = []
         if col is not None:
+            block.trails = block.trails or {}
             block.trails[key] = line[col:].rstrip()
         if key == "id" and block.section == "segment" and block.segment >= 0:
             try:
@@ -218,6 +246,13 @@ def carry_comments(old: str, new: str, header: str = "") -> str:
     after_head: dict[int, str] = {}
     end = list(was.end)
     for block in was.blocks:
+        if not (block.before or block.trail or block.keys or block.trails):
+            continue
+        block.before, block.keys, block.trails = (
+            block.before or [],
+            block.keys or {},
+            block.trails or {},
+        )
         seg_id = block.seg_id
         if block.segment >= 0:
             seg_id = matched(block.segment, seg_id)
