@@ -113,8 +113,8 @@ def test_a_file_with_overlaps_loads_and_check_refuses_it(tmp_path, capsys) -> No
     assert len(err) == 6  # five problems, then the count
     assert err[0] == (
         f"wallscreen: {path}: segment N-1, chainage_start_m: overlaps segment N-0 of the same "
-        'wall "N" from 10 m to 15 m; segments of one wall must not overlap (start N-1 at 15 m '
-        "or later, or give it another wall)"
+        'wall "N" from 10 m to 15 m; segments of one wall must not overlap (move or shorten '
+        "one of them, or give one another wall)"
     )
     assert err[-1] == "wallscreen: ... and 2 more (7 in all)"
 

@@ -215,7 +215,7 @@ def test_bad_preset_value_names_file_line_table_field(tmp_path: Path) -> None:
     with pytest.raises(InputError) as info:
         load_presets(root)
     assert str(info.value) == (
-        f"{path}:{line}:16: [fill.crushed-rock] friction_deg: must be between 0 and 50 "
+        f"{path}:{line}:16: [fill.crushed-rock] friction_deg: must be between 15 and 50 "
         "degrees (got 66)"
     )
 

@@ -132,7 +132,7 @@ def test_semicolons_decimal_commas_kilometre_chainage_and_break_column():
         ),
         (
             "bad_header.csv",
-            "bad_header.csv:1: no 'chainage_m' column (did you mean 'chainge'?); "
+            "bad_header.csv:1: no 'chainage_m' column (is 'chainge' meant to be it?); "
             "the header has: chainge, height_m",
         ),
         (

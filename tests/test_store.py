@@ -244,7 +244,7 @@ def test_failed_serialisation_leaves_the_old_file_intact(tmp_path: Path, example
 
 
 def test_save_into_a_missing_folder_is_an_input_error(tmp_path: Path, example, presets) -> None:
-    with pytest.raises(InputError, match="cannot write here"):
+    with pytest.raises(InputError, match="does not exist; create it first"):
         store.save(tmp_path / "no" / "such" / "c.toml", example, presets=presets)
 
 

@@ -188,7 +188,7 @@ def cmd_new(args: argparse.Namespace) -> int:
         breaks=tuple(args.breaks),
         profile_unit=args.profile_unit,
     )
-    store.save(args.file, corridor)
+    store.save(args.file, corridor, keep_comments=False)  # a new corridor: not the old notes
     print(f"wrote {args.file}: {len(corridor.segments)} segments")
     return EXIT_OK
 

@@ -39,8 +39,8 @@ def layout_warnings(path: Path, corridor: Corridor) -> list[str]:
                 InputError(
                     f'overlaps segment {p.first_id} of the same wall "{p.wall}" from '
                     f"{chainage_text(p.from_m)} m to {chainage_text(p.to_m)} m; segments of "
-                    f"one wall must not overlap (start {p.second_id} at "
-                    f"{chainage_text(p.to_m)} m or later, or give it another wall)",
+                    "one wall must not overlap (move or shorten one of them, or give one "
+                    "another wall)",
                     file=str(path),
                     segment=p.second_id,
                     field="chainage_start_m",

@@ -50,7 +50,7 @@ class SourceMap:
         block: dict[str, int] = {}  # key -> line, within the current header
         section, index = "", 0
         fence: str | None = None
-        for lineno, line in enumerate(text.splitlines(), start=1):
+        for lineno, line in enumerate(text.split("\n"), start=1):  # LF, not U+2028 &c.
             if fence is not None:
                 if line.count(fence) % 2 == 1:
                     fence = None

@@ -20,6 +20,7 @@ from typing import Any
 from screening.model import inputs as model
 from screening.model.errors import InputError
 from screening.model.schema import SourceMap, Where, build, suggest, table
+from screening.model.textfile import read_text
 
 FILES = {
     "fills": "fills.toml",
@@ -93,27 +94,12 @@ def parse_toml(text: str, source: str) -> dict[str, Any]:
             if repeat:
                 name, line, column, first = repeat[0]
                 msg = f"{name} is given twice (first on line {first})"
-        lines = text.splitlines()
+        lines = text.split("\n")  # TOML's line ends, not str.splitlines's
         here = lines[line - 1] if line is not None and 0 < line <= len(lines) else ""
         if here.count("{") > here.count("}"):
             msg = "Unclosed inline table"
         msg = FRIENDLY.get(msg, msg[:1].lower() + msg[1:])
         raise InputError(f"TOML syntax: {msg}", file=source, line=line, column=column) from None
-
-
-def read_text(path: Path | Traversable, source: str | None = None) -> str:
-    """The file's text, or an InputError saying why it cannot be read."""
-    source = source or str(path)
-    try:
-        return path.read_bytes().decode("utf-8")
-    except FileNotFoundError:
-        raise InputError("file not found", file=source) from None
-    except IsADirectoryError:
-        raise InputError("is a folder, not a file", file=source) from None
-    except PermissionError:
-        raise InputError("cannot be read (permission denied)", file=source) from None
-    except UnicodeDecodeError as err:
-        raise InputError(f"not a UTF-8 text file (byte {err.start})", file=source) from None
 
 
 def _families(doc: dict[str, Any], key: str, cls: type, where: Where) -> dict[str, Any]:

@@ -207,6 +207,31 @@ def _factor_set(factor_set: FactorSet | None, factor_set_id: str | None) -> Fact
     return sets[wanted]
 
 
+def _check_line_range(source: str, line: ProfileLine) -> None:
+    """Chainages and heights within what a corridor file takes, before splitting: a stray
+    1e300 would otherwise make the split run for hours (or forever)."""
+    from screening.model.schema import RANGES
+
+    who = " ".join(x for x in (line.wall, line.side) if x) or "the profile"
+    for key, values, field in (
+        ("chainage_start_m", line.chainage_m, "chainage"),
+        ("height_start_m", line.height_m, "exposed height"),
+    ):
+        rng = RANGES[key]
+        bad = next((v for v in values if rng.problem(v) is not None), None)
+        if bad is not None:
+            at = (
+                ""
+                if field == "chainage"
+                else f" at chainage {line.chainage_m[values.index(bad)]:g} m"
+            )
+            raise InputError(
+                f"{who}: {field} {bad:g} m{at} is outside what a corridor file takes "
+                f"({rng.lo:g} to {rng.hi:g} m)",
+                file=source,
+            )
+
+
 def corridor_from_profile(
     path: str | Path,
     *,
@@ -253,6 +278,8 @@ def corridor_from_profile(
     lines = read_profile(
         path, top_profile=top_profile, toe_profile=toe_profile, notes=notes, unit=profile_unit
     )
+    for line in lines:
+        _check_line_range(source, line)
     segments = segments_from_lines(
         lines,
         defaults,

@@ -27,6 +27,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from screening.model.errors import InputError
+from screening.model.schema import RANGES
 from screening.profile.split import (
     LENGTH_UNITS_M,
     ProfileLine,
@@ -74,8 +75,13 @@ def _columns(header: list[str], source: str) -> dict[str, int]:
                 found[key] = i
 
     def missing(key: str, also: str = "") -> InputError:
-        near = [n for n in names if difflib.get_close_matches(n, ALIASES[key], n=1, cutoff=0.7)]
-        hint = f" (did you mean {near[0]!r}?)" if near else ""
+        taken = {names[i] for i in found.values()}
+        near = [
+            n
+            for n in names
+            if n not in taken and difflib.get_close_matches(n, ALIASES[key], n=1, cutoff=0.7)
+        ]
+        hint = f" (is {near[0]!r} meant to be it?)" if near else ""
         return InputError(
             f"no {key!r} column{also}{hint}; the header has: {', '.join(h.strip() for h in header)}",
             file=source,
@@ -235,6 +241,14 @@ def _read_row(
                 "the top of the wall must be at or above the toe",
             )
         height = max(height, 0.0)
+    for key, value in (("chainage_m", chainage), ("height_m", height)):
+        rng = RANGES["chainage_start_m" if key == "chainage_m" else "height_start_m"]
+        if rng.problem(value) is not None:
+            shown = key if key in cols else "top_level_m"
+            raise fail(
+                shown,
+                f"{value:g} m is outside what a corridor file takes ({rng.lo:g} to {rng.hi:g} m)",
+            )
     wall = cell("wall") if "wall" in cols else ""
     side = ""
     if "side" in cols:

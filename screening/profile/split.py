@@ -71,6 +71,11 @@ def read_profile_text(path: str | Path) -> str:
         raise InputError("is a folder, not a profile file", file=source) from None
     except OSError as err:
         raise InputError(f"cannot read the profile ({err.strerror})", file=source) from None
+    if raw.startswith((b"\xff\xfe", b"\xfe\xff")):
+        raise InputError(
+            "is UTF-16 text, not UTF-8: save it as UTF-8 (in a spreadsheet: CSV UTF-8)",
+            file=source,
+        )
     try:
         return raw.decode("utf-8-sig")
     except UnicodeDecodeError as err:

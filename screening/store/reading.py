@@ -16,9 +16,11 @@ from pathlib import Path
 from typing import Any
 
 from screening import model
-from screening.model.presets import Presets, load_presets, parse_toml, read_text
+from screening.model.errors import InputError
+from screening.model.presets import Presets, load_presets, parse_toml
 from screening.model.schema import SourceMap, Where, build, number, suggest, table
 from screening.model.schema import text as as_text
+from screening.model.textfile import not_toml, read_text
 from screening.model.validate import (
     DEFAULT_KEYS,
     FIELD_NAMES,
@@ -28,6 +30,7 @@ from screening.model.validate import (
     parse_field,
     resolve,
 )
+from screening.store.safe_write import remove_stale_temps
 
 TOP_KEYS = ("schema", "screen", "corridor", "defaults", "rules", "segment")
 CORRIDOR_KEYS = ("name", "factor_set", "design_life_years", "note")
@@ -37,6 +40,7 @@ DEFAULT_FACTOR_SET = "aashto-lrfd"
 def load(path: str | os.PathLike[str], presets: Presets | None = None) -> model.Corridor:
     """Read and check the corridor file at ``path``."""
     source = str(path)
+    remove_stale_temps(path)
     return loads(read_text(Path(path), source), source, presets)
 
 
@@ -46,14 +50,41 @@ def load_with_screen(
     """The corridor at ``path`` and the results it carries from its last save, from one
     read and one parse (the results are never inputs: they are for comparison only)."""
     source = str(path)
+    remove_stale_temps(path)
     text = read_text(Path(path), source)
-    doc = parse_toml(text, source)
+    doc = parse_corridor_toml(text, source)
     return _corridor(doc, text, source, presets), _stored(doc)
 
 
 def loads(text: str, source: str = "<input>", presets: Presets | None = None) -> model.Corridor:
     """Read and check a corridor from TOML text; ``source`` names it in messages."""
-    return _corridor(parse_toml(text, source), text, source, presets)
+    return _corridor(parse_corridor_toml(text, source), text, source, presets)
+
+
+def parse_corridor_toml(text: str, source: str) -> dict[str, Any]:
+    """The TOML document of a corridor file; a file that is plainly something else (JSON,
+    XML, CSV, another TOML file, nothing at all) is called what it is."""
+    if not text.strip():
+        raise InputError(
+            f'the file is empty; a corridor file starts with schema = "{model.SCHEMA}" and a '
+            "[corridor] table (wallscreen new FILE --from-profile PROFILE makes one)",
+            file=source,
+        )
+    try:
+        doc = parse_toml(text, source)
+    except InputError:
+        what = not_toml(text, source)
+        if what is not None:
+            raise InputError(what, file=source) from None
+        raise
+    if doc and not {"schema", "corridor", "segment"} & set(doc):
+        tables = ", ".join(list(doc)[:6])
+        raise InputError(
+            f"this TOML file is not a corridor file: it has {tables} where a corridor file "
+            f'has schema = "{model.SCHEMA}", [corridor] and [[segment]] tables',
+            file=source,
+        )
+    return doc
 
 
 def _corridor(

@@ -8,12 +8,9 @@ truncates it. ``loads(dumps(x)) == x``.
 
 from __future__ import annotations
 
-import contextlib
 import dataclasses
 import datetime
 import os
-import shutil
-import tempfile
 from pathlib import Path
 from typing import Any
 
@@ -22,8 +19,11 @@ from screening.engine.result import cdr_cut
 from screening.model.errors import InputError
 from screening.model.presets import Presets, load_presets
 from screening.model.schema import SINGULARS, differences
+from screening.model.textfile import read_text
 from screening.model.validate import DEFAULT_KEYS, FIELD_NAMES, REQUIRED
+from screening.store.comments import carry_comments
 from screening.store.reading import default_spacing
+from screening.store.safe_write import write_atomic
 from screening.store.toml_layout import dumps_document, to_builtin
 
 HEADER = (
@@ -160,10 +160,23 @@ def _segment_table(
     return out
 
 
-def dumps(corridor: model.Corridor, result: Any = None, presets: Presets | None = None) -> str:
-    """The corridor (and, given, its screen) as the text of a corridor file."""
+def dumps(
+    corridor: model.Corridor,
+    result: Any = None,
+    presets: Presets | None = None,
+    *,
+    comments_from: str | None = None,
+) -> str:
+    """The corridor (and, given, its screen) as the text of a corridor file.
+
+    ``comments_from``: the text of an earlier version of the file, whose comments are carried
+    into the new text beside the same keys (:mod:`screening.store.comments`).
+    """
     presets = presets or load_presets()
-    return HEADER + "\n" + dumps_document(to_builtin(_document(corridor, result, presets)))
+    text = HEADER + "\n" + dumps_document(to_builtin(_document(corridor, result, presets)))
+    if comments_from:
+        text = carry_comments(comments_from, text, HEADER)
+    return text
 
 
 def save(
@@ -173,39 +186,28 @@ def save(
     presets: Presets | None = None,
     *,
     backup: bool = True,
+    comments_from: str | os.PathLike[str] | None = None,
+    keep_comments: bool = True,
 ) -> Path:
     """Write the corridor file atomically; the previous file is kept as ``<name>.bak``.
 
-    The text is made before the file is touched, so a failure never truncates it.
+    The comments of the file being replaced are kept (or those of ``comments_from``, a
+    corridor file's path: for a "save as" from the file that was opened; ``keep_comments=False``
+    when a different corridor replaces the file). The text is made
+    before the file is touched, so a failure never truncates it; a crash at any moment
+    leaves the old file or the new one (:mod:`screening.store.safe_write`).
     """
-    path = Path(path)
-    text = dumps(corridor, result, presets)
+    source = Path(comments_from if comments_from is not None else path)
+    old = _old_text(source) if keep_comments else None
+    text = dumps(corridor, result, presets, comments_from=old)
+    return write_atomic(path, text, backup=backup)
+
+
+def _old_text(path: Path) -> str | None:
+    """The text of the file a save replaces, for its comments; None when there is none."""
     try:
-        fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
-    except OSError as err:
-        raise InputError(f"cannot write here ({err.strerror})", file=str(path)) from None
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as f:
-            f.write(text)
-            f.flush()
-            os.fsync(f.fileno())
-        if path.exists():
-            os.chmod(tmp, path.stat().st_mode & 0o777)
-            if backup:
-                shutil.copy2(path, path.with_name(path.name + ".bak"))
-        else:
-            umask = os.umask(0)
-            os.umask(umask)
-            os.chmod(tmp, 0o666 & ~umask)
-        os.replace(tmp, path)
-    except BaseException as err:
-        with contextlib.suppress(FileNotFoundError):
-            os.unlink(tmp)
-        if isinstance(err, OSError):
-            raise InputError(f"cannot save ({err.strerror or err})", file=str(path)) from None
-        raise
-    with contextlib.suppress(OSError):
-        dfd = os.open(path.parent, os.O_DIRECTORY)
-        os.fsync(dfd)
-        os.close(dfd)
-    return path
+        if not path.is_file():
+            return None
+        return read_text(path)
+    except (InputError, OSError):
+        return None  # unreadable or not text: nothing to carry, the save goes on

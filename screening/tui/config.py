@@ -2,7 +2,7 @@
 
 Kept in ``$XDG_CONFIG_HOME/wallscreen/interface.toml`` (``~/.config/wallscreen`` when the
 variable is unset). A damaged file is ignored rather than stopping the app: it only holds
-conveniences.
+conveniences. Recent files that no longer exist are dropped when the state is read.
 """
 
 from __future__ import annotations
@@ -40,31 +40,43 @@ class InterfaceState:
 
     def remember(self, path: Path) -> None:
         """Put ``path`` at the top of the recent list (once), keeping the list short."""
-        text = str(Path(path).resolve())
+        try:
+            text = str(Path(path).resolve())
+        except (OSError, RuntimeError):  # a link loop and the like: keep it as given
+            text = str(Path(path).absolute())
         self.recent = [text] + [p for p in self.recent if p != text]
         del self.recent[MAX_RECENT:]
 
 
+def _exists(path: str) -> bool:
+    try:
+        return Path(path).is_file()
+    except (OSError, ValueError):  # e.g. a NUL byte in a hand-edited path
+        return False
+
+
 def load_state() -> InterfaceState:
-    """Read the state; a missing or unreadable file gives a fresh one."""
+    """Read the state; a missing, unreadable or damaged file gives a fresh one, and recent
+    files that no longer exist are dropped."""
     try:
         data = tomllib.loads(config_path().read_text(encoding="utf-8"))
-    except (OSError, tomllib.TOMLDecodeError, UnicodeDecodeError):
-        return InterfaceState()
+    except (OSError, ValueError, RuntimeError):  # TOML and UTF-8 errors are ValueErrors;
+        return InterfaceState()  # RuntimeError: no home folder to look in
     recent = data.get("recent", [])
     if not isinstance(recent, list):
         recent = []
+    seen = data.get("cautions_seen", False)
     return InterfaceState(
-        recent=[str(p) for p in recent if isinstance(p, str)][:MAX_RECENT],
-        cautions_seen=bool(data.get("cautions_seen", False)),
+        recent=[p for p in recent if isinstance(p, str) and _exists(p)][:MAX_RECENT],
+        cautions_seen=seen if isinstance(seen, bool) else False,
     )
 
 
 def save_state(state: InterfaceState) -> None:
     """Write the state atomically; failure to write is not worth stopping for."""
-    folder = config_dir()
     text = tomli_w.dumps({"cautions_seen": state.cautions_seen, "recent": state.recent})
-    with contextlib.suppress(OSError):
+    with contextlib.suppress(OSError, RuntimeError):
+        folder = config_dir()
         folder.mkdir(parents=True, exist_ok=True)
         fd, tmp = tempfile.mkstemp(dir=folder, prefix=".interface.", suffix=".tmp")
         try:
