@@ -18,7 +18,8 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from screening.engine.result import BoolArray, FloatArray
-from screening.engine.slip.bishop import SliceForces, bishop_factor
+from screening.engine.slip import kernel
+from screening.engine.slip.bishop import MAX_ITERATIONS, TOLERANCE, SliceForces, bishop_factor
 from screening.engine.slip.density import STANDARD, SearchDensity
 from screening.engine.slip.family import COMPOUND, GLOBAL, INVALID, classify
 from screening.engine.slip.geometry import (
@@ -131,8 +132,19 @@ def evaluate(
 
 
 def _evaluate_params(section, soils, layers, params, density, kh):
-    """params (n, c, 3) -> factor, converged, family, circles; evaluated in chunks of circles."""
+    """params (n, c, 3) -> factor, converged, family, circles; evaluated in chunks of circles
+    (or all at once by the compiled kernel, in double precision)."""
     n, c, _ = params.shape
+    if kernel.available():
+        floor = section.floor_m if section.floor_m is not None else np.full(n, -np.inf)
+        tangent = layers.tangent if layers.tangent is not None else np.zeros_like(layers.mask)
+        return kernel.evaluate_circles(
+            section.ground_x_m, section.ground_y_m, section.height_m, section.length_m,
+            section.water_level_m, section.surcharge_kpa, floor,
+            soils.unit_weight_kn_m3, soils.cohesion_kpa, soils.tan_phi,
+            layers.level_m, layers.mask, layers.rupture_kn_m, layers.pullout_kn_m2,
+            layers.front_kn_m, tangent, params, density.slices, kh, TOLERANCE, MAX_ITERATIONS,
+        )  # fmt: skip
     # A chunk holds about CHUNK_CIRCLES segment-circles: few segments, many circles at once.
     step = max(1, density.circles_per_chunk, CHUNK_CIRCLES // max(n, 1))
     out_f, out_ok, out_cls, out_geo = [], [], [], []
@@ -201,17 +213,6 @@ def _keep_family_best(fam_f, fam_p, f, cls, params):
     return fam_f, fam_p
 
 
-def _as32(obj):
-    """A copy of a slip dataclass with its float arrays in float32 (the search's working
-    precision: ample for F to 1e-4, and half the memory traffic)."""
-    return type(obj)(
-        *(
-            v.astype(np.float32) if isinstance(v, np.ndarray) and v.dtype == np.float64 else v
-            for v in (getattr(obj, f) for f in obj.__dataclass_fields__)
-        )
-    )
-
-
 def search(
     section: SlipSection,
     soils: SlipSoils,
@@ -234,14 +235,12 @@ def search(
     """
     n = section.n
     kh = np.zeros(n) if kh is None else np.asarray(kh, dtype=np.float64)
-    if density.single_precision:
-        fast = (_as32(section), _as32(soils), _as32(layers))
-        kh32 = kh.astype(np.float32)
-    else:
-        fast, kh32 = (section, soils, layers), kh
+    # Double precision throughout: the compiled kernel and the numpy path give the same
+    # numbers (a float32 search, as before, differed from them by about 1e-5 in F).
+    fast = (section, soils, layers)
     coarse = replace(density, slices=density.search_slices)
     grid = _clip_params(grid, bounds)
-    f, _, cls, _ = _evaluate_params(*fast, grid.astype(kh32.dtype), coarse, kh32)
+    f, _, cls, _ = _evaluate_params(*fast, grid, coarse, kh)
     tried = grid.shape[1]
     if initial_steps is None:
         initial_steps = np.stack(
@@ -281,7 +280,7 @@ def search(
     for _ in range(density.refine_steps):
         cand = bp[:, :, None, :] + moves[None, None] * steps[:, :, None, :]  # (n, k, M, 3)
         cand = _clip_params(cand.reshape(n, k * n_moves, 3), bounds)
-        cf, _, ccls, _ = _evaluate_params(*fast, cand.astype(kh32.dtype), coarse, kh32)
+        cf, _, ccls, _ = _evaluate_params(*fast, cand, coarse, kh)
         tried += k * n_moves
         fam_f, fam_p = _keep_family_best(fam_f, fam_p, cf, ccls, cand)
         cf = np.where((wanted == INVALID) | (ccls == wanted), cf, np.inf).reshape(n, k, n_moves)
