@@ -62,6 +62,13 @@ def _circles(
     lo = np.empty(3)
     width = np.empty(3)
     m_layers = lv.shape[1]
+    last_piece = gx.shape[1] - 2
+    fracs = np.empty(s_total)
+    k = 0
+    for z in range(3):
+        for q in range(counts[z]):
+            fracs[k] = (q + 0.5) / counts[z]
+            k += 1
     for i in range(n):
         big_l, h = length[i], height[i]
         for j in range(c):
@@ -119,13 +126,21 @@ def _circles(
             kh_sum = 0.0
             resist = 0.0
             k = 0
+            piece = 0  # the ground piece under the slice: slices run from the front backwards
             for z in range(3):
                 cz = counts[z]
                 b = width[z] / cz
-                for q in range(cz):
-                    frac = (q + 0.5) / cz
-                    x = lo[z] + frac * width[z]
-                    top = _ground(gx, gy, i, x)
+                for _ in range(cz):
+                    x = lo[z] + fracs[k] * width[z]
+                    while piece < last_piece and x > gx[i, piece + 1]:
+                        piece += 1
+                    x0 = gx[i, piece]
+                    span = gx[i, piece + 1] - x0
+                    if span > 0:
+                        t = max((x - x0) / span, 0.0)
+                        top = gy[i, piece] + t * (gy[i, piece + 1] - gy[i, piece])
+                    else:
+                        top = gy[i, piece + 1]
                     inside = r2 - (x - xc) ** 2
                     base = yc - math.sqrt(inside) if inside >= 0.0 else top
                     if math.isnan(base):
@@ -147,8 +162,9 @@ def _circles(
                     drive_sum += w * sin_a
                     kh_sum += w * (yc - 0.5 * (base + top))
                     cg = max(cos_a, 1e-9)
-                    normal = max(w * cg - pore * b / cg, 0.0)
-                    resist += cs * b / cg + normal * ts
+                    b_cg = b / cg
+                    normal = max(w * cg - pore * b_cg, 0.0)
+                    resist += cs * b_cg + normal * ts
                     top_s[k] = r * (cs * b + max(w - pore * b, 0.0) * ts)
                     slope_s[k] = sin_a * ts
                     floor_s[k] = 0.2 if ts > 0 else 1e-9

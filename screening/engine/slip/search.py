@@ -169,6 +169,41 @@ _CORNER_MOVES = np.concatenate([_AXIS_MOVES, _MOVES[np.abs(_MOVES).sum(axis=1) =
 """The 6 axis neighbours and the 8 corners."""
 
 
+def _move_tables(moves: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """For a set of pattern moves (M, 3): ``overlap`` (M, M), True where move j' from the
+    point reached by move j0 lands on a point of j0's own neighbourhood (or its centre), and
+    ``index`` (27,), the move with given components (ternary code), -1 for the centre or a
+    move not in the set."""
+    total = moves[:, None, :] + moves[None, :, :]
+    overlap = np.all(np.abs(total) <= 1, axis=-1)
+    index = np.full(27, -1, dtype=np.int64)
+    codes = ((moves + 1) @ np.array([9, 3, 1])).astype(np.int64)
+    index[codes] = np.arange(moves.shape[0])
+    return overlap, index
+
+
+def _known(bp, cand, moves, index, last, unclipped):
+    """(n, k, M) True where a candidate needs no evaluation, because this start has already
+    evaluated that very point, whose factor is then no lower than the start's current one,
+    so it can neither be accepted nor improve a family's best:
+
+    - a move pushed back onto a bound lands where a shorter move (or the centre) does;
+    - after an accepted move ``last`` (n, k; -1 none) that no bound changed (``unclipped``),
+      the new neighbourhood shares its points with the previous one.
+    """
+    at = cand == bp[:, :, None, :]  # (n, k, M, 3): no move along that axis after clipping
+    reduced = np.where(at, 0, moves[None, None].astype(np.int64))
+    code = (reduced + 1) @ np.array([9, 3, 1])
+    partner = index[code]  # (n, k, M)
+    self_ = np.arange(moves.shape[0])[None, None, :]
+    same_centre = np.all(at, axis=-1)
+    other = np.take_along_axis(cand, np.maximum(partner, 0)[..., None], 2)
+    dup = same_centre | ((partner >= 0) & (partner != self_) & np.all(other == cand, axis=-1))
+    overlap, _ = _move_tables(moves)
+    seen = np.where((last >= 0)[..., None], overlap[np.maximum(last, 0)], False)
+    return dup | (seen & unclipped[..., None])
+
+
 def _pick(a: np.ndarray, j: np.ndarray, n_moves: int) -> np.ndarray:
     """Rows of ``a`` (n, S*M, ...) at move ``j`` (n, S) of each start -> (n, S, ...)."""
     n, s_count = j.shape
@@ -277,10 +312,17 @@ def search(
     moves = {26: _MOVES, 14: _CORNER_MOVES}.get(density.moves, _AXIS_MOVES)
     n_moves = moves.shape[0]
     wanted = np.repeat(family, n_moves)[None, :]
+    _, index = _move_tables(moves)
+    last = np.full((n, k), -1, dtype=np.int64)
+    unclipped = np.zeros((n, k), dtype=bool)
     for _ in range(density.refine_steps):
-        cand = bp[:, :, None, :] + moves[None, None] * steps[:, :, None, :]  # (n, k, M, 3)
-        cand = _clip_params(cand.reshape(n, k * n_moves, 3), bounds)
-        cf, _, ccls, _ = _evaluate_params(*fast, cand, coarse, kh)
+        raw = bp[:, :, None, :] + moves[None, None] * steps[:, :, None, :]  # (n, k, M, 3)
+        cand = _clip_params(raw, bounds)
+        skip = _known(bp, cand, moves, index, last, unclipped)
+        # Points already known are not evaluated again (NaN: the kernel skips them at once).
+        todo = np.where(skip[..., None], np.nan, cand).reshape(n, k * n_moves, 3)
+        cand = cand.reshape(n, k * n_moves, 3)
+        cf, _, ccls, _ = _evaluate_params(*fast, todo, coarse, kh)
         tried += k * n_moves
         fam_f, fam_p = _keep_family_best(fam_f, fam_p, cf, ccls, cand)
         cf = np.where((wanted == INVALID) | (ccls == wanted), cf, np.inf).reshape(n, k, n_moves)
@@ -290,6 +332,10 @@ def search(
         bp = np.where(better[..., None], _pick(cand, j, n_moves), bp)
         bf = np.where(better, pick, bf)
         steps = np.where(better[..., None], steps, 0.5 * steps)
+        last = np.where(better, j, -1)
+        unclipped = np.all(
+            _pick(cand, j, n_moves) == _pick(raw.reshape(cand.shape), j, n_moves), -1
+        )
     # The starts' circles and each family's best once more, full slices, double precision.
     final_p = np.concatenate([bp, fam_p], axis=1)  # (n, k + 2, 3)
     ff, fok, fcls, fgeo = _evaluate_params(section, soils, layers, final_p, density, kh)
