@@ -108,6 +108,14 @@ def compound_check(
     to be near-critical (the same segments at other lengths; NaN where none); rows with any
     are refined from them with :data:`WARM` instead of a full search.
     """
+    unique, inverse = _distinct_rows(inp, kh, warm)
+    if unique.size < inp.n:
+        # Equal cross-sections (a profile gives many) are searched once.
+        pick = lambda a: None if a is None else np.asarray(a)[unique]  # noqa: E731
+        once = compound_check(
+            inp.take(unique), method, resistance, cases, density, pick(kh), pick(warm)
+        )
+        return CompoundResult(_expand(once.compound, inverse), _expand(once.global_, inverse))
     n = inp.n
     phi = np.where(
         inp.abutment,
@@ -130,14 +138,45 @@ def compound_check(
             sub_layers = _take(layers, rows)
             sub_kh = np.zeros(rows.size) if kh is None else np.asarray(kh, dtype=np.float64)[rows]
             found = _search_rows(sub, section, soils, sub_layers, density, sub_kh, warm, rows)
-            label = f"{f.name}, {'short term (cu)' if undrained else 'long term'}"
-            if not np.isfinite(inp.found_undrained_kpa).any():
-                label = f.name
+            # "long term" only where a foundation with cu is also checked short term (per
+            # row, so a segment's words never depend on the other segments of the batch).
+            term = "short term (cu)" if undrained else "long term"
+            label = np.where(
+                np.isfinite(sub.found_undrained_kpa), f"{f.name}, {term}", f.name
+            ).astype(object)
             for name in best:
                 circ = found.family(name)
                 drive = _driving_moment(section, soils, circ, density, sub_kh)
                 _merge(best[name], rows, circ, phi[rows], label, drive)
     return CompoundResult(_finish(best["compound"]), _finish(best["global"]))
+
+
+def _distinct_rows(inp: WallSlipInput, kh, warm) -> tuple[np.ndarray, np.ndarray]:
+    """Rows with distinct inputs (first of each) and, per row, its place among them: rows
+    equal in every input field, kh and known circles have the same result."""
+    values = [getattr(inp, f.name) for f in fields(inp)]
+    cols = [np.asarray(v, dtype=np.float64).reshape(inp.n, -1) for v in values if v is not None]
+    for extra in (kh, warm):
+        if extra is not None:
+            cols.append(np.asarray(extra, dtype=np.float64).reshape(inp.n, -1))
+    table = np.ascontiguousarray(np.concatenate(cols, axis=1))
+    rows = table.view(np.dtype((np.void, table.dtype.itemsize * table.shape[1])))[:, 0]
+    _, unique, inverse = np.unique(rows, return_index=True, return_inverse=True)
+    return unique, inverse.reshape(-1)
+
+
+def _expand(check: FamilyCheck, inverse: np.ndarray) -> FamilyCheck:
+    """A family's result on distinct rows, back on every row."""
+    return FamilyCheck(
+        **{
+            f.name: (
+                [getattr(check, f.name)[i] for i in inverse.tolist()]
+                if isinstance(getattr(check, f.name), list)
+                else getattr(check, f.name)[inverse]
+            )
+            for f in fields(check)
+        }
+    )
 
 
 def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSearch:
@@ -271,7 +310,7 @@ def _empty(n: int) -> dict:
     }
 
 
-def _merge(acc: dict, rows, circ: CriticalCircle, phi, label: str, drive) -> None:
+def _merge(acc: dict, rows, circ: CriticalCircle, phi, label: np.ndarray, drive) -> None:
     cdr = circ.factor * phi
     worse = cdr < acc["cdr"][rows]
     idx = rows[worse]
@@ -280,7 +319,7 @@ def _merge(acc: dict, rows, circ: CriticalCircle, phi, label: str, drive) -> Non
     acc["demand"][idx] = drive[worse]
     for key in ("centre_x_m", "centre_y_m", "radius_m", "converged", "found"):
         acc[key][idx] = getattr(circ, key)[worse]
-    acc["case"][idx] = label
+    acc["case"][idx] = label[worse]
     params = np.stack([circ.x_exit_m, circ.x_entry_m, circ.angle_rad], axis=-1)
     acc["params"][idx] = params[worse]
 

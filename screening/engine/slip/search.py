@@ -174,11 +174,15 @@ def _move_tables(moves: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     point reached by move j0 lands on a point of j0's own neighbourhood (or its centre), and
     ``index`` (27,), the move with given components (ternary code), -1 for the centre or a
     move not in the set."""
-    total = moves[:, None, :] + moves[None, :, :]
-    overlap = np.all(np.abs(total) <= 1, axis=-1)
     index = np.full(27, -1, dtype=np.int64)
     codes = ((moves + 1) @ np.array([9, 3, 1])).astype(np.int64)
     index[codes] = np.arange(moves.shape[0])
+    total = moves[:, None, :] + moves[None, :, :]
+    # A point of the old neighbourhood: the old centre, or one of the old moves (with 14 or
+    # 6 moves not every step of one lattice cell is a move).
+    inside = np.all(np.abs(total) <= 1, axis=-1)
+    code = ((np.clip(total, -1, 1) + 1) @ np.array([9, 3, 1])).astype(np.int64)
+    overlap = inside & ((index[code] >= 0) | np.all(total == 0, axis=-1))
     return overlap, index
 
 
