@@ -18,7 +18,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from screening.engine.result import BoolArray, FloatArray
-from screening.engine.slip import kernel
+from screening.engine.slip import kernel, kernel_search
 from screening.engine.slip.bishop import MAX_ITERATIONS, TOLERANCE, SliceForces, bishop_factor
 from screening.engine.slip.density import STANDARD, SearchDensity
 from screening.engine.slip.family import COMPOUND, GLOBAL, INVALID, classify
@@ -136,15 +136,9 @@ def _evaluate_params(section, soils, layers, params, density, kh):
     (or all at once by the compiled kernel, in double precision)."""
     n, c, _ = params.shape
     if kernel.available():
-        floor = section.floor_m if section.floor_m is not None else np.full(n, -np.inf)
-        tangent = layers.tangent if layers.tangent is not None else np.zeros_like(layers.mask)
         return kernel.evaluate_circles(
-            section.ground_x_m, section.ground_y_m, section.height_m, section.length_m,
-            section.water_level_m, section.surcharge_kpa, floor,
-            soils.unit_weight_kn_m3, soils.cohesion_kpa, soils.tan_phi,
-            layers.level_m, layers.mask, layers.rupture_kn_m, layers.pullout_kn_m2,
-            layers.front_kn_m, tangent, params, density.slices, kh, TOLERANCE, MAX_ITERATIONS,
-        )  # fmt: skip
+            section, soils, layers, params, density.slices, kh, TOLERANCE, MAX_ITERATIONS
+        )
     # A chunk holds about CHUNK_CIRCLES segment-circles: few segments, many circles at once.
     step = max(1, density.circles_per_chunk, CHUNK_CIRCLES // max(n, 1))
     out_f, out_ok, out_cls, out_geo = [], [], [], []
@@ -316,10 +310,18 @@ def search(
     moves = {26: _MOVES, 14: _CORNER_MOVES}.get(density.moves, _AXIS_MOVES)
     n_moves = moves.shape[0]
     wanted = np.repeat(family, n_moves)[None, :]
-    _, index = _move_tables(moves)
+    overlap, index = _move_tables(moves)
     last = np.full((n, k), -1, dtype=np.int64)
     unclipped = np.zeros((n, k), dtype=bool)
-    for _ in range(density.refine_steps):
+    rounds = density.refine_steps
+    if kernel.available():  # the same rounds, compiled (kernel_search)
+        bp, bf, fam_f, fam_p = kernel_search.refine(
+            *fast, bounds, bp, bf, steps, family, moves, overlap, index, rounds,
+            coarse.slices, kh, TOLERANCE, MAX_ITERATIONS, fam_f, fam_p,
+        )  # fmt: skip
+        tried += rounds * k * n_moves
+        rounds = 0
+    for _ in range(rounds):
         raw = bp[:, :, None, :] + moves[None, None] * steps[:, :, None, :]  # (n, k, M, 3)
         cand = _clip_params(raw, bounds)
         skip = _known(bp, cand, moves, index, last, unclipped)

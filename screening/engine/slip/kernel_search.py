@@ -1,0 +1,167 @@
+"""The pattern search of :func:`screening.engine.slip.search.search`, compiled: every round of
+every start of every segment in one call instead of a numpy round trip per round.
+
+It takes the same steps in the same order as the numpy loop (the same candidates, clipped
+the same way, the same points skipped as already known, the same first-best choice and the
+same family records), so the two give the same circles; tests/unit/test_slip_kernel.py
+checks it. Only :func:`refine` and :func:`warm_up` are meant for use elsewhere.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from screening.engine.slip import kernel
+
+
+def _refine(
+    sec, soil, lay, counts, kh, tol, max_it, bounds, angles, bp, bf, steps, family, moves,
+    overlap, index, rounds, fam_f, fam_p,
+):  # fmt: skip
+    exit_min, exit_max, entry_min, entry_max = bounds
+    fracs = kernel._fractions(counts)
+    work = np.empty((4, fracs.shape[0]))
+    k, n_moves = bp.shape[1], moves.shape[0]
+    cand = np.empty((k, n_moves, 3))
+    raw = np.empty((k, n_moves, 3))
+    cf = np.empty((k, n_moves))
+    ccls = np.empty((k, n_moves), dtype=np.int64)
+    last = np.empty(k, dtype=np.int64)
+    unclipped = np.zeros(k, dtype=np.bool_)
+    for i in range(bp.shape[0]):
+        last[:] = -1
+        for _ in range(rounds):
+            # Candidates, clipped as search._clip_params does.
+            for s in range(k):
+                for m in range(n_moves):
+                    for d in range(3):
+                        raw[s, m, d] = bp[i, s, d] + moves[m, d] * steps[i, s, d]
+                    e = min(max(raw[s, m, 0], exit_min[i]), exit_max[i])
+                    n_lo = max(entry_min[i], e + 1e-3)
+                    cand[s, m, 0] = e
+                    cand[s, m, 1] = min(max(raw[s, m, 1], n_lo), max(entry_max[i], n_lo))
+                    cand[s, m, 2] = min(max(raw[s, m, 2], angles[0]), angles[1])
+            # Points already known are skipped (search._known), the others evaluated.
+            for s in range(k):
+                for m in range(n_moves):
+                    code = 0
+                    centre = True
+                    for d in range(3):
+                        at = cand[s, m, d] == bp[i, s, d]
+                        centre = centre and at
+                        code = code * 3 + (1 if at else int(moves[m, d]) + 1)
+                    skip = centre
+                    partner = index[code]
+                    if not skip and partner >= 0 and partner != m:
+                        skip = (
+                            cand[s, partner, 0] == cand[s, m, 0]
+                            and cand[s, partner, 1] == cand[s, m, 1]
+                            and cand[s, partner, 2] == cand[s, m, 2]
+                        )
+                    if last[s] >= 0 and overlap[last[s], m] and unclipped[s]:
+                        skip = True
+                    if skip:
+                        cf[s, m], ccls[s, m] = np.inf, -1
+                        continue
+                    f, _, c, _, _, _ = kernel._circle(
+                        sec, soil, lay, i, cand[s, m, 0], cand[s, m, 1], cand[s, m, 2],
+                        counts, fracs, kh[i], tol, max_it, work,
+                    )  # fmt: skip
+                    cf[s, m], ccls[s, m] = f, c
+            # Each family's best so far (search._keep_family_best: the first of the least).
+            for s in range(k):
+                for m in range(n_moves):
+                    c = ccls[s, m]
+                    if c >= 0 and cf[s, m] < fam_f[i, c]:
+                        fam_f[i, c] = cf[s, m]
+                        for d in range(3):
+                            fam_p[i, c, d] = cand[s, m, d]
+            # Each start moves to its best neighbour of its family, or halves its steps.
+            for s in range(k):
+                best, j = np.inf, 0
+                for m in range(n_moves):
+                    mine = family[s] == -1 or ccls[s, m] == family[s]
+                    if mine and cf[s, m] < best:
+                        best, j = cf[s, m], m
+                unclipped[s] = (
+                    cand[s, j, 0] == raw[s, j, 0]
+                    and cand[s, j, 1] == raw[s, j, 1]
+                    and cand[s, j, 2] == raw[s, j, 2]
+                )
+                if math.isfinite(best) and best < bf[i, s] - 1e-6:
+                    for d in range(3):
+                        bp[i, s, d] = cand[s, j, d]
+                    bf[i, s] = best
+                    last[s] = j
+                else:
+                    for d in range(3):
+                        steps[i, s, d] = 0.5 * steps[i, s, d]
+                    last[s] = -1
+
+
+_compiled = None
+
+
+def _kernel():
+    global _compiled
+    if _compiled is None:
+        import numba
+
+        kernel._kernel()  # the circle function is compiled first: this one calls it
+        _compiled = numba.njit(cache=True, nogil=True, error_model="numpy")(_refine)
+    return _compiled
+
+
+def refine(section, soils, layers, bounds, bp, bf, steps, family, moves, overlap, index,
+           rounds, counts, kh, tol, max_it, fam_f, fam_p):  # fmt: skip
+    """Run ``rounds`` of the pattern search; returns the new (bp, bf, fam_f, fam_p)."""
+    f64 = kernel._f64
+    bp, bf, steps = f64(bp).copy(), f64(bf).copy(), f64(steps).copy()
+    fam_f, fam_p = f64(fam_f).copy(), f64(fam_p).copy()
+    limits = (
+        f64(bounds.exit_min_m), f64(bounds.exit_max_m),
+        f64(bounds.entry_min_m), f64(bounds.entry_max_m),
+    )  # fmt: skip
+    angles = np.array([bounds.angle_min_rad, bounds.angle_max_rad], dtype=np.float64)
+    sec, soil, lay = kernel.pack(section, soils, layers)
+    _kernel()(
+        sec, soil, lay, np.asarray(counts, dtype=np.int64), f64(kh), float(tol), int(max_it),
+        limits, angles, bp, bf, steps, np.asarray(family, dtype=np.int64), f64(moves),
+        np.ascontiguousarray(overlap, dtype=np.bool_), np.asarray(index, dtype=np.int64),
+        int(rounds), fam_f, fam_p,
+    )  # fmt: skip
+    return bp, bf, fam_f, fam_p
+
+
+def warm_up() -> None:
+    """Compile both kernels (or load them from numba's cache) on a one-circle problem."""
+    from types import SimpleNamespace as NS
+
+    one = np.ones((1, 1))
+    section = NS(
+        ground_x_m=np.array([[-10.0, 0.0, 0.0, 10.0]]), ground_y_m=np.array([[0.5, 0.5, 3.0, 3.0]]),
+        height_m=np.full(1, 3.0), length_m=np.full(1, 2.0), water_level_m=np.full(1, -np.inf),
+        surcharge_kpa=np.zeros(1), floor_m=np.full(1, -6.0),
+    )  # fmt: skip
+    soils = NS(
+        unit_weight_kn_m3=np.full((1, 3), 19.0), cohesion_kpa=np.zeros((1, 3)),
+        tan_phi=np.full((1, 3), 0.6),
+    )  # fmt: skip
+    layers = NS(
+        level_m=one, mask=np.ones((1, 1), dtype=bool), rupture_kn_m=one, pullout_kn_m2=one,
+        front_kn_m=one, tangent=np.zeros((1, 1), dtype=bool),
+    )  # fmt: skip
+    start = np.array([[[-1.0, 2.0, 1.0]]])
+    kernel.evaluate_circles(section, soils, layers, start, (6, 12, 10), np.zeros(1), 1e-4, 60)
+    bounds = NS(
+        exit_min_m=np.full(1, -5.0), exit_max_m=np.zeros(1), entry_min_m=np.full(1, 0.1),
+        entry_max_m=np.full(1, 9.0), angle_min_rad=0.1, angle_max_rad=2.6,
+    )  # fmt: skip
+    moves = np.eye(3)
+    refine(
+        section, soils, layers, bounds, start, np.ones((1, 1)), np.full((1, 1, 3), 0.1),
+        np.array([-1]), moves, np.zeros((3, 3), dtype=bool), np.full(27, -1), 1, (6, 12, 10),
+        np.zeros(1), 1e-4, 60, np.full((1, 2), np.inf), np.zeros((1, 2, 3)),
+    )  # fmt: skip
