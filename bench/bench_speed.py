@@ -51,7 +51,7 @@ except ImportError:  # a tree from before the kernel
 
 ENGINE = sys.modules["screening.engine"]
 
-_WARM = "from screening.engine.slip import kernel; print(kernel.warm_up())"
+_WARM = "from screening.engine.slip import kernel_search; print(kernel_search.warm_up())"
 
 
 def compile_times() -> None:

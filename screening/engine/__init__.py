@@ -37,7 +37,7 @@ from screening.engine.context import (
 )
 from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
 from screening.engine.sizing import evaluate, size_length
-from screening.engine.slip import kernel
+from screening.engine.slip import kernel_search
 from screening.engine.spacing import closer_spacing
 from screening.engine.verdict import SIZING_CHECKS, decide
 from screening.model import CHECKS, Corridor, FactorSet
@@ -123,7 +123,7 @@ def _screen_in_pool(
 ) -> CorridorResult:
     """The screen over chunks of segments in ``workers`` forked processes, joined in order."""
     if plugins:
-        kernel.warm_up()  # compiled (or loaded) once here; the forked processes inherit it
+        kernel_search.warm_up()  # compiled (or loaded) once here; the forked processes inherit it
     segs = corridor.segments
     size = max(-(-len(segs) // (workers * POOL_CHUNKS_PER_WORKER)), POOL_CHUNK_MIN)
     chunks = [replace(corridor, segments=segs[i : i + size]) for i in range(0, len(segs), size)]

@@ -136,3 +136,19 @@ def test_acads_1a_on_the_kernel() -> None:
     ref, got = _both(run)
     assert got[0] == pytest.approx(1.00, abs=0.03)
     assert got[0] == pytest.approx(ref[0], rel=1e-6)
+
+
+def test_compiled_search_finds_the_numpy_search_circles() -> None:
+    """The whole search (grid, compiled pattern search, final circles) on 8 random walls,
+    with kh on half of them: the same critical circles and factors as the numpy loop."""
+    from screening.engine.slip.check import compound_check
+
+    inp = random_walls(8, seed=13)
+    kh = np.where(np.arange(inp.n) % 2 == 0, 0.1, 0.0)
+    phi = {"compound": 0.65}
+    ref, got = _both(lambda: compound_check(inp, "lrfd", phi, kh=kh))
+    for fam in ("compound", "global_"):
+        a, b = getattr(ref, fam), getattr(got, fam)
+        assert np.array_equal(a.found, b.found)
+        np.testing.assert_allclose(b.factor[a.found], a.factor[a.found], rtol=1e-9)
+        np.testing.assert_allclose(b.params[a.found], a.params[a.found], rtol=1e-9, atol=1e-12)

@@ -9,7 +9,8 @@ The kernel always works in double precision.
 numba is optional: without it (or with :data:`ENABLED` set False) :func:`available` is False
 and the search uses the numpy path. The compiled code is cached on disk by numba
 (``cache=True``), so only the first run on a machine pays for the compilation (a few seconds,
-bench/bench_speed.py prints it); :func:`warm_up` compiles or loads it on purpose.
+bench/bench_speed.py prints it); :func:`screening.engine.slip.kernel_search.warm_up`
+compiles or loads both kernels on purpose.
 """
 
 from __future__ import annotations
@@ -23,7 +24,6 @@ ENABLED = True
 """Set False to force the numpy path (tests and the benchmark compare the two)."""
 WATER = 9.81
 """Unit weight of water, kN/m3 (the same value as geometry.WATER_UNIT_WEIGHT_KN_M3)."""
-_READY = False
 
 
 def _ground(gx, gy, i, x):
@@ -239,21 +239,6 @@ def _kernel():
 def available() -> bool:
     """True when the compiled kernel can be used (numba installed and :data:`ENABLED`)."""
     return ENABLED and _HAS_NUMBA
-
-
-def warm_up() -> float:
-    """Compile the kernels, or load them from numba's cache; seconds it took (0 when ready)."""
-    global _READY
-    if not available() or _READY:
-        return 0.0
-    import time
-
-    from screening.engine.slip import kernel_search
-
-    start = time.perf_counter()
-    kernel_search.warm_up()
-    _READY = True
-    return time.perf_counter() - start
 
 
 def _f64(a):

@@ -135,9 +135,19 @@ def refine(section, soils, layers, bounds, bp, bf, steps, family, moves, overlap
     return bp, bf, fam_f, fam_p
 
 
-def warm_up() -> None:
-    """Compile both kernels (or load them from numba's cache) on a one-circle problem."""
+_READY = False
+
+
+def warm_up() -> float:
+    """Compile both kernels, or load them from numba's cache, on a one-circle problem;
+    seconds it took (0 when they are ready or numba is not there)."""
+    global _READY
+    if not kernel.available() or _READY:
+        return 0.0
+    import time
     from types import SimpleNamespace as NS
+
+    start_time = time.perf_counter()
 
     one = np.ones((1, 1))
     section = NS(
@@ -165,3 +175,5 @@ def warm_up() -> None:
         np.array([-1]), moves, np.zeros((3, 3), dtype=bool), np.full(27, -1), 1, (6, 12, 10),
         np.zeros(1), 1e-4, 60, np.full((1, 2), np.inf), np.zeros((1, 2, 3)),
     )  # fmt: skip
+    _READY = True
+    return time.perf_counter() - start_time
