@@ -76,10 +76,10 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
     chord = math.hypot(vx, vy)
     safe = chord if chord > 1e-9 else 1.0
     half = min(max(ang, 1e-3), math.pi - 1e-3) / 2
-    offset = 0.5 * safe / math.tan(half)
+    r = 0.5 * safe / math.sin(half)
+    offset = r * math.cos(half)  # 0.5 chord / tan(half)
     xc = 0.5 * (xe + xn) - vy / safe * offset
     yc = 0.5 * (ye + yn) + vx / safe * offset
-    r = 0.5 * safe / math.sin(half)
     r2 = r * r
     valid = vx > 1e-6 and yc >= max(ye, yn) - 1e-9
     valid = valid and math.isfinite(xc) and math.isfinite(yc)

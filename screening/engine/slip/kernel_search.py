@@ -43,8 +43,24 @@ def _refine(
                     cand[s, m, 0] = e
                     cand[s, m, 1] = min(max(raw[s, m, 1], n_lo), max(entry_max[i], n_lo))
                     cand[s, m, 2] = min(max(raw[s, m, 2], angles[0]), angles[1])
-            # Points already known are skipped (search._known), the others evaluated.
+            # Points already known are skipped (search._known), the others evaluated; a start
+            # that stands where an earlier one stands, with the same steps, has the same
+            # candidates, so their values are copied (a free start and a family's own
+            # often begin on the same grid circle and never part).
             for s in range(k):
+                twin = -1
+                for t in range(s):
+                    same = last[t] == last[s] and unclipped[t] == unclipped[s]
+                    for d in range(3):
+                        same = same and bp[i, t, d] == bp[i, s, d]
+                        same = same and steps[i, t, d] == steps[i, s, d]
+                    if same:
+                        twin = t
+                        break
+                if twin >= 0:
+                    for m in range(n_moves):
+                        cf[s, m], ccls[s, m] = cf[twin, m], ccls[twin, m]
+                    continue
                 for m in range(n_moves):
                     code = 0
                     centre = True
