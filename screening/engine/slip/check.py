@@ -14,7 +14,6 @@ import numpy as np
 
 from screening.engine.result import CDR_CAP, BoolArray, FloatArray
 from screening.engine.slip.density import STANDARD, WARM, SearchDensity
-from screening.engine.slip.geometry import Circles, make_slices
 from screening.engine.slip.search import CriticalCircle, SlipSearch, search
 from screening.engine.slip.wall import (
     Factors,
@@ -69,26 +68,6 @@ def factor_cases(method: str, cases) -> list[Factors]:
             continue
         out.append(Factors(c.name, c.ev, c.es, c.ls, c.tan_phi, c.cohesion, c.undrained))
     return out or [Factors("unfactored")]
-
-
-def _driving_moment(section, soils, circ: CriticalCircle, density, kh) -> FloatArray:
-    """Driving moment (kN.m/m) of each segment's critical circle, with any pseudo-static part."""
-    col = lambda a, fill: np.nan_to_num(a, nan=fill)[:, None]  # noqa: E731
-    circles = Circles(
-        col(circ.x_exit_m, -1.0),
-        col(circ.x_entry_m, 1.0),
-        col(circ.x_exit_m, 0.0),
-        col(circ.x_entry_m, 0.0),
-        col(circ.centre_x_m, 0.0),
-        col(circ.centre_y_m, 10.0),
-        col(circ.radius_m, 10.0),
-        circ.found[:, None],
-    )
-    sl = make_slices(section, soils, circles, density.slices)
-    drive = circles.radius_m * np.sum(sl.weight_kn * sl.sin_a, axis=-1)
-    lever = circles.centre_y_m[..., None] - 0.5 * (sl.base_y_m + sl.top_y_m)
-    drive = drive + kh[:, None] * np.sum(sl.weight_kn * lever, axis=-1)
-    return np.where(circ.found, drive[:, 0], 0.0)
 
 
 def compound_check(
@@ -146,7 +125,7 @@ def compound_check(
             ).astype(object)
             for name in best:
                 circ = found.family(name)
-                drive = _driving_moment(section, soils, circ, density, sub_kh)
+                drive = circ.drive_knm_m
                 _merge(best[name], rows, circ, phi[rows], label, drive)
     return CompoundResult(_finish(best["compound"]), _finish(best["global"]))
 

@@ -60,7 +60,8 @@ def _fractions(counts):
 
 
 def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, work):
-    """One circle of segment i: (F, converged, family, centre x, centre y, radius).
+    """One circle of segment i: (F, converged, family, centre x, centre y, radius, driving
+    moment about the centre with any pseudo-static part, kN.m/m).
 
     F is inf where the circle is invalid, internal (family -2) or drives nothing; family -1
     where it is invalid. ``work`` is scratch space (4, slices)."""
@@ -69,7 +70,7 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
     lv, lmask, lrup, lpull, lfront, ltan = lay
     big_l, h = length[i], height[i]
     if not (math.isfinite(xe) and math.isfinite(xn) and math.isfinite(ang)):
-        return np.inf, True, -1, np.nan, np.nan, np.nan
+        return np.inf, True, -1, np.nan, np.nan, np.nan, np.nan
     # The circle through the two ground points (geometry.make_circles).
     ye, yn = _ground(gx, gy, i, xe), _ground(gx, gy, i, xn)
     vx, vy = xn - xe, yn - ye
@@ -95,7 +96,7 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
         low_y = yc - math.sqrt(max(r2 - (low_x - xc) ** 2, 0.0))
         valid = low_y >= floor[i] - 1e-6
     if not valid:
-        return np.inf, True, -1, xc, yc, r
+        return np.inf, True, -1, xc, yc, r, np.nan
     # Family (family.classify).
     under = _below_base(xc, yc, r2, 0.0) and _below_base(xc, yc, r2, big_l) and xn >= big_l
     low_x = min(max(xc, 0.0), min(big_l, xn))
@@ -174,7 +175,7 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
     # Bishop's simplified method from the ordinary value (bishop.bishop_factor).
     drive = r * drive_sum + kh_i * kh_sum
     if not drive > 1e-9:
-        return np.inf, True, cls, xc, yc, r  # no driving moment: F = inf, converged
+        return np.inf, True, cls, xc, yc, r, drive  # no driving moment: F = inf, converged
     f = (r * resist + restoring) / drive
     if not (math.isfinite(f) and f > 0):
         f = 1.0
@@ -190,7 +191,7 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
         if not step >= tol:
             done = True
             break
-    return (f if cls >= 0 else np.inf), done, cls, xc, yc, r
+    return (f if cls >= 0 else np.inf), done, cls, xc, yc, r, drive
 
 
 def _circles(sec, soil, lay, params, counts, kh, tol, max_it, out_f, out_ok, out_cls, out_geo):
@@ -198,12 +199,13 @@ def _circles(sec, soil, lay, params, counts, kh, tol, max_it, out_f, out_ok, out
     work = np.empty((4, fracs.shape[0]))
     for i in range(params.shape[0]):
         for j in range(params.shape[1]):
-            f, ok, cls, xc, yc, r = _circle(
+            f, ok, cls, xc, yc, r, drive = _circle(
                 sec, soil, lay, i, params[i, j, 0], params[i, j, 1], params[i, j, 2],
                 counts, fracs, kh[i], tol, max_it, work,
             )  # fmt: skip
             out_f[i, j], out_ok[i, j], out_cls[i, j] = f, ok, cls
             out_geo[i, j, 0], out_geo[i, j, 1], out_geo[i, j, 2] = xc, yc, r
+            out_geo[i, j, 3] = drive
 
 
 _compiled = None
@@ -266,12 +268,13 @@ def pack(section, soils, layers) -> tuple:
 
 def evaluate_circles(section, soils, layers, params, counts, kh, tol, max_it):
     """Factor (n, c; inf where invalid, internal or not driving), convergence (n, c), family
-    (n, c; -1 invalid, -2 internal) and centre x, y and radius (n, c, 3) of every circle."""
+    (n, c; -1 invalid, -2 internal) and centre x, y, radius and driving moment (n, c, 4) of
+    every circle."""
     n, c = params.shape[0], params.shape[1]
     out_f = np.empty((n, c))
     out_ok = np.empty((n, c), dtype=np.bool_)
     out_cls = np.empty((n, c), dtype=np.int64)
-    out_geo = np.empty((n, c, 3))
+    out_geo = np.empty((n, c, 4))
     sec, soil, lay = pack(section, soils, layers)
     _kernel()(
         sec, soil, lay, _f64(params), np.asarray(counts, dtype=np.int64), _f64(kh),

@@ -81,7 +81,7 @@ def _refine(
                     if skip:
                         cf[s, m], ccls[s, m] = np.inf, -1
                         continue
-                    f, _, c, _, _, _ = kernel._circle(
+                    f, _, c, _, _, _, _ = kernel._circle(
                         sec, soil, lay, i, cand[s, m, 0], cand[s, m, 1], cand[s, m, 2],
                         counts, fracs, kh[i], tol, max_it, work,
                     )  # fmt: skip

@@ -62,6 +62,8 @@ class CriticalCircle:
     """Angle the arc subtends at the centre (with x_exit_m, x_entry_m: the search parameters)."""
     converged: BoolArray
     found: BoolArray
+    drive_knm_m: FloatArray | None = None
+    """Driving moment about the centre (with any pseudo-static part), kN.m/m; 0 where none."""
 
 
 @dataclass(frozen=True)
@@ -93,6 +95,7 @@ _FIELDS = (
     "angle_rad",
     "converged",
     "found",
+    "drive_knm_m",
 )
 
 
@@ -109,6 +112,11 @@ def evaluate(
     ``kh`` (n,) adds a pseudo-static horizontal force kh*W at each slice's mid-height, whose
     moment about the centre drives the mass outwards.
     """
+    return _evaluate(section, soils, layers, circles, slices, kh)[:2]
+
+
+def _evaluate(section, soils, layers, circles, slices, kh):
+    """:func:`evaluate` and the driving moment of every circle (n, c), kN.m/m."""
     sl = make_slices(section, soils, circles, slices)
     forces = SliceForces(
         sl.weight_kn,
@@ -128,11 +136,13 @@ def evaluate(
     restoring = reinforcement_moment(section, layers, circles)
     result = bishop_factor(forces, restoring, drive)
     value = np.where(circles.valid, result.value, np.inf)
-    return value, result.converged | ~circles.valid
+    total = circles.radius_m * np.add.reduce(sl.weight_kn * sl.sin_a, axis=-1) + drive
+    return value, result.converged | ~circles.valid, total
 
 
 def _evaluate_params(section, soils, layers, params, density, kh):
-    """params (n, c, 3) -> factor, converged, family, circles; evaluated in chunks of circles
+    """params (n, c, 3) -> factor, converged, family, circles (centre x, y, radius, driving
+    moment: (n, c, 4)); evaluated in chunks of circles
     (or all at once by the compiled kernel, in double precision)."""
     n, c, _ = params.shape
     if kernel.available():
@@ -145,12 +155,14 @@ def _evaluate_params(section, soils, layers, params, density, kh):
     for start in range(0, c, step):  # chunks of trial circles, never of segments
         p = params[:, start : start + step]
         circles = make_circles(section, p[..., 0], p[..., 1], p[..., 2])
-        f, ok = evaluate(section, soils, layers, circles, density.slices, kh)
+        f, ok, drive = _evaluate(section, soils, layers, circles, density.slices, kh)
         cls = classify(section, circles)
         out_f.append(np.where(cls >= 0, f, np.inf))  # internal circles are not searched
         out_ok.append(ok)
         out_cls.append(cls)
-        out_geo.append(np.stack([circles.centre_x_m, circles.centre_y_m, circles.radius_m], -1))
+        out_geo.append(
+            np.stack([circles.centre_x_m, circles.centre_y_m, circles.radius_m, drive], -1)
+        )
     cat = np.concatenate
     return cat(out_f, 1), cat(out_ok, 1), cat(out_cls, 1), cat(out_geo, 1)
 
@@ -364,6 +376,7 @@ def search(
             centre_x_m=bgeo[:, k, 0] + nan,
             centre_y_m=bgeo[:, k, 1] + nan,
             radius_m=bgeo[:, k, 2] + nan,
+            drive_knm_m=np.where(found, bgeo[:, k, 3], 0.0),
             x_exit_m=bp[:, k, 0] + nan,
             x_entry_m=bp[:, k, 1] + nan,
             angle_rad=bp[:, k, 2] + nan,
