@@ -55,6 +55,10 @@ __all__ = [
 
 ENGINE_VERSION = __version__
 PLUGIN_MODULES = ("screening.engine.slip.compound", "screening.engine.checks.seismic")
+KERNEL_WAIT_SEGMENTS = 100
+"""A screen of this many segments or more waits for the compiled slip search (loaded from
+numba's cache in under a second; compiled in a few seconds on a machine's first run); a
+shorter one starts on the numpy path, which gives the same numbers, while it loads."""
 POOL_MIN_SEGMENTS = 1000
 """A corridor this long or longer is screened by a pool of processes over chunks of
 segments; a shorter one (and the interface's one-segment path, and ``screen_iter``) in
@@ -90,6 +94,8 @@ def screen(
     """
     extras = default_extra_checks() if extra_checks is None else tuple(extra_checks)
     n = len(corridor.segments)
+    if n >= KERNEL_WAIT_SEGMENTS and extra_checks is None:
+        kernel_search.warm_up()  # a long screen waits for the compiled slip search
     workers = _pool_workers(n, extra_checks)
     if workers > 1:
         return _screen_in_pool(corridor, factor_set, extra_checks is None, workers)

@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from screening.engine.slip import kernel, search
+from screening.engine.slip import kernel, kernel_search, search
 from screening.engine.slip.density import FINE, STANDARD
 from screening.engine.slip.wall import (
     Factors,
@@ -67,6 +67,9 @@ def random_walls(n: int, seed: int) -> WallSlipInput:
 
 
 def _both(fn):
+    """fn() on the numpy path, then on the compiled kernels (compiled or loaded first)."""
+    kernel_search.warm_up()
+    assert kernel_search.ready()
     old = kernel.ENABLED
     try:
         kernel.ENABLED = False

@@ -6,11 +6,9 @@ The numbers are those of :mod:`screening.engine.slip.geometry`, :mod:`.family` a
 circle); only the order of the sums over slices differs, so a factor agrees to about 1e-12.
 The kernel always works in double precision.
 
-numba is optional: without it (or with :data:`ENABLED` set False) :func:`available` is False
-and the search uses the numpy path. The compiled code is cached on disk by numba
-(``cache=True``), so only the first run on a machine pays for the compilation (a few seconds,
-bench/bench_speed.py prints it); :func:`screening.engine.slip.kernel_search.warm_up`
-compiles or loads both kernels on purpose.
+These are plain Python functions; :mod:`screening.engine.slip.kernel_search` compiles them
+with numba and says when the compiled code is ready. numba is optional: without it (or with
+:data:`ENABLED` set False) :func:`available` is False and the search uses the numpy path.
 """
 
 from __future__ import annotations
@@ -194,52 +192,39 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
     return (f if cls >= 0 else np.inf), done, cls, xc, yc, r, drive
 
 
+def _row(sec, soil, lay, i, pts, skip, counts, fracs, kh_i, tol, max_it, work, out_f, out_ok,
+         out_cls, out_geo):  # fmt: skip
+    """Every circle ``pts`` (c, 3) of segment i not marked in ``skip`` (c,): the one place the
+    circle function is called, so the compiled code holds one copy of it."""
+    for j in range(pts.shape[0]):
+        if skip[j]:
+            out_f[j], out_ok[j], out_cls[j] = np.inf, True, -1
+            continue
+        f, ok, cls, xc, yc, r, drive = _circle(
+            sec, soil, lay, i, pts[j, 0], pts[j, 1], pts[j, 2], counts, fracs, kh_i, tol,
+            max_it, work,
+        )  # fmt: skip
+        out_f[j], out_ok[j], out_cls[j] = f, ok, cls
+        out_geo[j, 0], out_geo[j, 1], out_geo[j, 2], out_geo[j, 3] = xc, yc, r, drive
+
+
 def _circles(sec, soil, lay, params, counts, kh, tol, max_it, out_f, out_ok, out_cls, out_geo):
+    """Every circle ``params`` (n, c, 3) of every segment into the (n, c[, 4]) outputs."""
     fracs = _fractions(counts)
     work = np.empty((4, fracs.shape[0]))
+    skip = np.zeros(params.shape[1], dtype=np.bool_)
     for i in range(params.shape[0]):
-        for j in range(params.shape[1]):
-            f, ok, cls, xc, yc, r, drive = _circle(
-                sec, soil, lay, i, params[i, j, 0], params[i, j, 1], params[i, j, 2],
-                counts, fracs, kh[i], tol, max_it, work,
-            )  # fmt: skip
-            out_f[i, j], out_ok[i, j], out_cls[i, j] = f, ok, cls
-            out_geo[i, j, 0], out_geo[i, j, 1], out_geo[i, j, 2] = xc, yc, r
-            out_geo[i, j, 3] = drive
+        _row(
+            sec, soil, lay, i, params[i], skip, counts, fracs, kh[i], tol, max_it, work,
+            out_f[i], out_ok[i], out_cls[i], out_geo[i],
+        )  # fmt: skip
 
 
-_compiled = None
 _HAS_NUMBA = importlib.util.find_spec("numba") is not None
 
 
-def _kernel():
-    """The compiled ``_circles`` (numba imported on first use: it costs half a second)."""
-    global _compiled
-    if _compiled is None:
-        import numba
-
-        jit = numba.njit(
-            cache=True,
-            nogil=True,
-            error_model="numpy",
-            fastmath={"reassoc", "contract", "arcp", "nsz"},
-        )
-        inline = numba.njit(
-            cache=True,
-            nogil=True,
-            error_model="numpy",
-            fastmath={"reassoc", "contract", "arcp", "nsz"},
-            inline="always",
-        )
-        for name in ("_ground", "_below_base", "_circle"):
-            globals()[name] = inline(globals()[name])
-        globals()["_fractions"] = jit(_fractions)
-        _compiled = jit(_circles)
-    return _compiled
-
-
 def available() -> bool:
-    """True when the compiled kernel can be used (numba installed and :data:`ENABLED`)."""
+    """True when the compiled kernel may be used (numba installed and :data:`ENABLED`)."""
     return ENABLED and _HAS_NUMBA
 
 
@@ -264,20 +249,3 @@ def pack(section, soils, layers) -> tuple:
         np.ascontiguousarray(tangent, dtype=np.bool_),
     )  # fmt: skip
     return sec, soil, lay
-
-
-def evaluate_circles(section, soils, layers, params, counts, kh, tol, max_it):
-    """Factor (n, c; inf where invalid, internal or not driving), convergence (n, c), family
-    (n, c; -1 invalid, -2 internal) and centre x, y, radius and driving moment (n, c, 4) of
-    every circle."""
-    n, c = params.shape[0], params.shape[1]
-    out_f = np.empty((n, c))
-    out_ok = np.empty((n, c), dtype=np.bool_)
-    out_cls = np.empty((n, c), dtype=np.int64)
-    out_geo = np.empty((n, c, 4))
-    sec, soil, lay = pack(section, soils, layers)
-    _kernel()(
-        sec, soil, lay, _f64(params), np.asarray(counts, dtype=np.int64), _f64(kh),
-        float(tol), int(max_it), out_f, out_ok, out_cls, out_geo,
-    )  # fmt: skip
-    return out_f, out_ok, out_cls, out_geo

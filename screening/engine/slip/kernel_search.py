@@ -4,21 +4,32 @@ every start of every segment in one call instead of a numpy round trip per round
 It takes the same steps in the same order as the numpy loop (the same candidates, clipped
 the same way, the same points skipped as already known, the same first-best choice and the
 same family records), so the two give the same circles; tests/unit/test_slip_kernel.py
-checks it. Only :func:`refine` and :func:`warm_up` are meant for use elsewhere.
+checks it.
+
+It also compiles both kernels (numba, ``cache=True``: only the first run on a machine pays
+for it, a few seconds that bench/bench_speed.py prints) in a background thread, so a screen
+never waits for the compiler unless it asks to (:func:`warm_up`); until :func:`ready`, the
+search takes the numpy path, which gives the same numbers.
 """
 
 from __future__ import annotations
 
 import math
+import threading
+import time
+from types import SimpleNamespace as NS
 
 import numpy as np
 
 from screening.engine.slip import kernel
 
+SETTLE = 1e10
+"""Factors are compared on a 1e-10 grid (search.SETTLE says why)."""
+
 
 def _refine(
     sec, soil, lay, counts, kh, tol, max_it, bounds, angles, bp, bf, steps, family, moves,
-    overlap, index, rounds, fam_f, fam_p,
+    overlap, index, rounds, fam_f, fam_p, settle,
 ):  # fmt: skip
     exit_min, exit_max, entry_min, entry_max = bounds
     fracs = kernel._fractions(counts)
@@ -28,6 +39,9 @@ def _refine(
     raw = np.empty((k, n_moves, 3))
     cf = np.empty((k, n_moves))
     ccls = np.empty((k, n_moves), dtype=np.int64)
+    skip = np.empty(n_moves, dtype=np.bool_)
+    cok = np.empty(n_moves, dtype=np.bool_)
+    cgeo = np.empty((n_moves, 4))
     last = np.empty(k, dtype=np.int64)
     unclipped = np.zeros(k, dtype=np.bool_)
     for i in range(bp.shape[0]):
@@ -68,24 +82,23 @@ def _refine(
                         at = cand[s, m, d] == bp[i, s, d]
                         centre = centre and at
                         code = code * 3 + (1 if at else int(moves[m, d]) + 1)
-                    skip = centre
+                    known = centre
                     partner = index[code]
-                    if not skip and partner >= 0 and partner != m:
-                        skip = (
+                    if not known and partner >= 0 and partner != m:
+                        known = (
                             cand[s, partner, 0] == cand[s, m, 0]
                             and cand[s, partner, 1] == cand[s, m, 1]
                             and cand[s, partner, 2] == cand[s, m, 2]
                         )
                     if last[s] >= 0 and overlap[last[s], m] and unclipped[s]:
-                        skip = True
-                    if skip:
-                        cf[s, m], ccls[s, m] = np.inf, -1
-                        continue
-                    f, _, c, _, _, _, _ = kernel._circle(
-                        sec, soil, lay, i, cand[s, m, 0], cand[s, m, 1], cand[s, m, 2],
-                        counts, fracs, kh[i], tol, max_it, work,
-                    )  # fmt: skip
-                    cf[s, m], ccls[s, m] = f, c
+                        known = True
+                    skip[m] = known
+                kernel._row(
+                    sec, soil, lay, i, cand[s], skip, counts, fracs, kh[i], tol, max_it, work,
+                    cf[s], cok, ccls[s], cgeo,
+                )  # fmt: skip
+                for m in range(n_moves):  # search.settled
+                    cf[s, m] = np.rint(cf[s, m] * settle) / settle
             # Each family's best so far (search._keep_family_best: the first of the least).
             for s in range(k):
                 for m in range(n_moves):
@@ -117,21 +130,87 @@ def _refine(
                     last[s] = -1
 
 
-_compiled = None
+FASTMATH = {"reassoc", "contract", "arcp", "nsz"}
+"""No NaN or inf assumptions (the kernel relies on both); sums may be reordered."""
+_CIRCLES = None
+_REFINE = None
+_FAILED = False
+_THREAD: threading.Thread | None = None
+_LOCK = threading.Lock()
 
 
-def _kernel():
-    global _compiled
-    if _compiled is None:
+def ready() -> bool:
+    """True when the compiled kernels are loaded and may be used; the search takes the numpy
+    path until then (the same numbers)."""
+    return kernel.available() and _REFINE is not None
+
+
+def start() -> None:
+    """Compile the kernels, or load them from numba's cache, in a background thread (once).
+
+    The thread is not a daemon: a short process waits for it at exit, so the compiled code
+    reaches numba's cache and the next run only loads it (well under a second)."""
+    global _THREAD
+    if not kernel.available() or ready() or _FAILED:
+        return
+    with _LOCK:
+        if _THREAD is None:
+            _THREAD = threading.Thread(target=_build, name="wallscreen-slip-kernel")
+            _THREAD.start()
+
+
+def warm_up() -> float:
+    """Compile or load the kernels and wait for them; seconds waited (0 when ready)."""
+    if not kernel.available() or ready():
+        return 0.0
+    begin = time.perf_counter()
+    start()
+    if _THREAD is not None:
+        _THREAD.join()
+    return time.perf_counter() - begin
+
+
+def _build() -> None:
+    global _CIRCLES, _REFINE, _FAILED
+    try:
         import numba
 
-        kernel._kernel()  # the circle function is compiled first: this one calls it
-        _compiled = numba.njit(cache=True, nogil=True, error_model="numpy")(_refine)
-    return _compiled
+        def jit(fn, **kw):
+            return numba.njit(cache=True, nogil=True, error_model="numpy", **kw)(fn)
+
+        for name in ("_ground", "_below_base", "_circle"):
+            setattr(kernel, name, jit(getattr(kernel, name), fastmath=FASTMATH, inline="always"))
+        kernel._fractions = jit(kernel._fractions)
+        kernel._row = jit(kernel._row, fastmath=FASTMATH)
+        circles, refine_ = jit(kernel._circles), jit(_refine)
+        _try(circles, refine_)
+        _CIRCLES, _REFINE = circles, refine_
+    except Exception:  # noqa: BLE001 - any failure to compile leaves the numpy path in use
+        _FAILED = True
+
+
+def _arrays(section, soils, layers, params, counts, kh):
+    f64 = kernel._f64
+    sec, soil, lay = kernel.pack(section, soils, layers)
+    return sec, soil, lay, f64(params), np.asarray(counts, dtype=np.int64), f64(kh)
+
+
+def evaluate_circles(section, soils, layers, params, counts, kh, tol, max_it, compiled=None):
+    """Factor (n, c; inf where invalid, internal or not driving), convergence (n, c), family
+    (n, c; -1 invalid, -2 internal) and centre x, y, radius and driving moment (n, c, 4) of
+    every circle, by the compiled kernel (:func:`ready` must be True)."""
+    n, c = params.shape[0], params.shape[1]
+    out = (
+        np.empty((n, c)), np.empty((n, c), dtype=np.bool_), np.empty((n, c), dtype=np.int64),
+        np.empty((n, c, 4)),
+    )  # fmt: skip
+    sec, soil, lay, p, cnt, k = _arrays(section, soils, layers, params, counts, kh)
+    (compiled or _CIRCLES)(sec, soil, lay, p, cnt, k, float(tol), int(max_it), *out)
+    return out
 
 
 def refine(section, soils, layers, bounds, bp, bf, steps, family, moves, overlap, index,
-           rounds, counts, kh, tol, max_it, fam_f, fam_p):  # fmt: skip
+           rounds, counts, kh, tol, max_it, fam_f, fam_p, compiled=None):  # fmt: skip
     """Run ``rounds`` of the pattern search; returns the new (bp, bf, fam_f, fam_p)."""
     f64 = kernel._f64
     bp, bf, steps = f64(bp).copy(), f64(bf).copy(), f64(steps).copy()
@@ -141,30 +220,18 @@ def refine(section, soils, layers, bounds, bp, bf, steps, family, moves, overlap
         f64(bounds.entry_min_m), f64(bounds.entry_max_m),
     )  # fmt: skip
     angles = np.array([bounds.angle_min_rad, bounds.angle_max_rad], dtype=np.float64)
-    sec, soil, lay = kernel.pack(section, soils, layers)
-    _kernel()(
-        sec, soil, lay, np.asarray(counts, dtype=np.int64), f64(kh), float(tol), int(max_it),
-        limits, angles, bp, bf, steps, np.asarray(family, dtype=np.int64), f64(moves),
+    sec, soil, lay, _, cnt, k = _arrays(section, soils, layers, bp, counts, kh)
+    (compiled or _REFINE)(
+        sec, soil, lay, cnt, k, float(tol), int(max_it), limits, angles, bp, bf, steps,
+        np.asarray(family, dtype=np.int64), f64(moves),
         np.ascontiguousarray(overlap, dtype=np.bool_), np.asarray(index, dtype=np.int64),
-        int(rounds), fam_f, fam_p,
+        int(rounds), fam_f, fam_p, float(SETTLE),
     )  # fmt: skip
     return bp, bf, fam_f, fam_p
 
 
-_READY = False
-
-
-def warm_up() -> float:
-    """Compile both kernels, or load them from numba's cache, on a one-circle problem;
-    seconds it took (0 when they are ready or numba is not there)."""
-    global _READY
-    if not kernel.available() or _READY:
-        return 0.0
-    import time
-    from types import SimpleNamespace as NS
-
-    start_time = time.perf_counter()
-
+def _try(circles, refine_) -> None:
+    """Run both compiled kernels once on a one-circle problem (compiles or loads them)."""
     one = np.ones((1, 1))
     section = NS(
         ground_x_m=np.array([[-10.0, 0.0, 0.0, 10.0]]), ground_y_m=np.array([[0.5, 0.5, 3.0, 3.0]]),
@@ -179,17 +246,15 @@ def warm_up() -> float:
         level_m=one, mask=np.ones((1, 1), dtype=bool), rupture_kn_m=one, pullout_kn_m2=one,
         front_kn_m=one, tangent=np.zeros((1, 1), dtype=bool),
     )  # fmt: skip
-    start = np.array([[[-1.0, 2.0, 1.0]]])
-    kernel.evaluate_circles(section, soils, layers, start, (6, 12, 10), np.zeros(1), 1e-4, 60)
+    first = np.array([[[-1.0, 2.0, 1.0]]])
+    evaluate_circles(section, soils, layers, first, (6, 12, 10), np.zeros(1), 1e-4, 60, circles)
     bounds = NS(
         exit_min_m=np.full(1, -5.0), exit_max_m=np.zeros(1), entry_min_m=np.full(1, 0.1),
         entry_max_m=np.full(1, 9.0), angle_min_rad=0.1, angle_max_rad=2.6,
     )  # fmt: skip
-    moves = np.eye(3)
     refine(
-        section, soils, layers, bounds, start, np.ones((1, 1)), np.full((1, 1, 3), 0.1),
-        np.array([-1]), moves, np.zeros((3, 3), dtype=bool), np.full(27, -1), 1, (6, 12, 10),
-        np.zeros(1), 1e-4, 60, np.full((1, 2), np.inf), np.zeros((1, 2, 3)),
+        section, soils, layers, bounds, first, np.ones((1, 1)), np.full((1, 1, 3), 0.1),
+        np.array([-1]), np.eye(3), np.zeros((3, 3), dtype=bool), np.full(27, -1), 1,
+        (6, 12, 10), np.zeros(1), 1e-4, 60, np.full((1, 2), np.inf), np.zeros((1, 2, 3)),
+        refine_,
     )  # fmt: skip
-    _READY = True
-    return time.perf_counter() - start_time

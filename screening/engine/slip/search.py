@@ -18,7 +18,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from screening.engine.result import BoolArray, FloatArray
-from screening.engine.slip import kernel, kernel_search
+from screening.engine.slip import kernel_search
 from screening.engine.slip.bishop import MAX_ITERATIONS, TOLERANCE, SliceForces, bishop_factor
 from screening.engine.slip.density import STANDARD, SearchDensity
 from screening.engine.slip.family import COMPOUND, GLOBAL, INVALID, classify
@@ -31,6 +31,7 @@ from screening.engine.slip.geometry import (
     make_slices,
     reinforcement_moment,
 )
+from screening.engine.slip.moves import MOVE_SETS, known_points, move_tables
 
 CHUNK_CIRCLES = 16_000
 """Segment-circles evaluated together (x slices each): bounds memory, keeps numpy busy."""
@@ -145,10 +146,11 @@ def _evaluate_params(section, soils, layers, params, density, kh):
     moment: (n, c, 4)); evaluated in chunks of circles
     (or all at once by the compiled kernel, in double precision)."""
     n, c, _ = params.shape
-    if kernel.available():
-        return kernel.evaluate_circles(
+    if kernel_search.ready():
+        return kernel_search.evaluate_circles(
             section, soils, layers, params, density.slices, kh, TOLERANCE, MAX_ITERATIONS
         )
+    kernel_search.start()  # compiled in the background; the numpy path meanwhile
     # A chunk holds about CHUNK_CIRCLES segment-circles: few segments, many circles at once.
     step = max(1, density.circles_per_chunk, CHUNK_CIRCLES // max(n, 1))
     out_f, out_ok, out_cls, out_geo = [], [], [], []
@@ -167,51 +169,16 @@ def _evaluate_params(section, soils, layers, params, density, kh):
     return cat(out_f, 1), cat(out_ok, 1), cat(out_cls, 1), cat(out_geo, 1)
 
 
-_AXIS_MOVES = np.concatenate([np.eye(3), -np.eye(3)])
-"""The 6 axis neighbours."""
-_MOVES = np.array([m for m in np.ndindex(3, 3, 3) if m != (1, 1, 1)], dtype=np.float64) - 1.0
-"""The 26 neighbours of a point on the (exit, entry, angle) lattice."""
-_CORNER_MOVES = np.concatenate([_AXIS_MOVES, _MOVES[np.abs(_MOVES).sum(axis=1) == 3]])
-"""The 6 axis neighbours and the 8 corners."""
+SETTLE = kernel_search.SETTLE
+"""Factors are compared as multiples of 1/SETTLE (1e-10): circles whose factors differ only
+by rounding (1e-15) tie, and the first of them is taken, so neither the order of a sum nor
+which path evaluated a circle (compiled or numpy) can turn the search another way. Before,
+such ties went either way and a search could end in another local minimum."""
 
 
-def _move_tables(moves: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """For a set of pattern moves (M, 3): ``overlap`` (M, M), True where move j' from the
-    point reached by move j0 lands on a point of j0's own neighbourhood (or its centre), and
-    ``index`` (27,), the move with given components (ternary code), -1 for the centre or a
-    move not in the set."""
-    index = np.full(27, -1, dtype=np.int64)
-    codes = ((moves + 1) @ np.array([9, 3, 1])).astype(np.int64)
-    index[codes] = np.arange(moves.shape[0])
-    total = moves[:, None, :] + moves[None, :, :]
-    # A point of the old neighbourhood: the old centre, or one of the old moves (with 14 or
-    # 6 moves not every step of one lattice cell is a move).
-    inside = np.all(np.abs(total) <= 1, axis=-1)
-    code = ((np.clip(total, -1, 1) + 1) @ np.array([9, 3, 1])).astype(np.int64)
-    overlap = inside & ((index[code] >= 0) | np.all(total == 0, axis=-1))
-    return overlap, index
-
-
-def _known(bp, cand, moves, index, last, unclipped):
-    """(n, k, M) True where a candidate needs no evaluation, because this start has already
-    evaluated that very point, whose factor is then no lower than the start's current one,
-    so it can neither be accepted nor improve a family's best:
-
-    - a move pushed back onto a bound lands where a shorter move (or the centre) does;
-    - after an accepted move ``last`` (n, k; -1 none) that no bound changed (``unclipped``),
-      the new neighbourhood shares its points with the previous one.
-    """
-    at = cand == bp[:, :, None, :]  # (n, k, M, 3): no move along that axis after clipping
-    reduced = np.where(at, 0, moves[None, None].astype(np.int64))
-    code = (reduced + 1) @ np.array([9, 3, 1])
-    partner = index[code]  # (n, k, M)
-    self_ = np.arange(moves.shape[0])[None, None, :]
-    same_centre = np.all(at, axis=-1)
-    other = np.take_along_axis(cand, np.maximum(partner, 0)[..., None], 2)
-    dup = same_centre | ((partner >= 0) & (partner != self_) & np.all(other == cand, axis=-1))
-    overlap, _ = _move_tables(moves)
-    seen = np.where((last >= 0)[..., None], overlap[np.maximum(last, 0)], False)
-    return dup | (seen & unclipped[..., None])
+def settled(f: FloatArray) -> FloatArray:
+    """``f`` rounded to the nearest multiple of 1/SETTLE (inf stays inf)."""
+    return np.rint(f * SETTLE) / SETTLE
 
 
 def _pick(a: np.ndarray, j: np.ndarray, n_moves: int) -> np.ndarray:
@@ -286,6 +253,7 @@ def search(
     coarse = replace(density, slices=density.search_slices)
     grid = _clip_params(grid, bounds)
     f, _, cls, _ = _evaluate_params(*fast, grid, coarse, kh)
+    f = settled(f)
     tried = grid.shape[1]
     if initial_steps is None:
         initial_steps = np.stack(
@@ -319,14 +287,14 @@ def search(
         [INVALID] * free + [COMPOUND] * own[0].shape[1] + [GLOBAL] * own[1].shape[1]
     )
     steps = np.repeat(initial_steps[:, None, :], k, axis=1)
-    moves = {26: _MOVES, 14: _CORNER_MOVES}.get(density.moves, _AXIS_MOVES)
+    moves = MOVE_SETS.get(density.moves, MOVE_SETS[6])
     n_moves = moves.shape[0]
     wanted = np.repeat(family, n_moves)[None, :]
-    overlap, index = _move_tables(moves)
+    overlap, index = move_tables(moves)
     last = np.full((n, k), -1, dtype=np.int64)
     unclipped = np.zeros((n, k), dtype=bool)
     rounds = density.refine_steps
-    if kernel.available():  # the same rounds, compiled (kernel_search)
+    if kernel_search.ready():  # the same rounds, compiled
         bp, bf, fam_f, fam_p = kernel_search.refine(
             *fast, bounds, bp, bf, steps, family, moves, overlap, index, rounds,
             coarse.slices, kh, TOLERANCE, MAX_ITERATIONS, fam_f, fam_p,
@@ -336,11 +304,12 @@ def search(
     for _ in range(rounds):
         raw = bp[:, :, None, :] + moves[None, None] * steps[:, :, None, :]  # (n, k, M, 3)
         cand = _clip_params(raw, bounds)
-        skip = _known(bp, cand, moves, index, last, unclipped)
+        skip = known_points(bp, cand, moves, index, last, unclipped)
         # Points already known are not evaluated again (NaN: the kernel skips them at once).
         todo = np.where(skip[..., None], np.nan, cand).reshape(n, k * n_moves, 3)
         cand = cand.reshape(n, k * n_moves, 3)
         cf, _, ccls, _ = _evaluate_params(*fast, todo, coarse, kh)
+        cf = settled(cf)
         tried += k * n_moves
         fam_f, fam_p = _keep_family_best(fam_f, fam_p, cf, ccls, cand)
         cf = np.where((wanted == INVALID) | (ccls == wanted), cf, np.inf).reshape(n, k, n_moves)
@@ -357,6 +326,7 @@ def search(
     # The starts' circles and each family's best once more, full slices, double precision.
     final_p = np.concatenate([bp, fam_p], axis=1)  # (n, k + 2, 3)
     ff, fok, fcls, fgeo = _evaluate_params(section, soils, layers, final_p, density, kh)
+    ff = settled(ff)
     tried += k + 2
     ff = np.where(np.isfinite(np.concatenate([bf, fam_f], axis=1)), ff, np.inf)
     take = np.stack(
