@@ -167,8 +167,9 @@ def screen_iter(
 def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> CorridorResult:
     """The engine proper, on inputs already turned into arrays: the screen, then a closer
     spacing on the segments whose layers are too weak at any length and grade."""
-    result = _screen_once(a, extras)
-    return closer_spacing(a, result, lambda sub, words: _screen_once(sub, extras, words))
+    with kernel_search.pinned():  # one path (compiled or numpy) for the whole screen
+        result = _screen_once(a, extras)
+        return closer_spacing(a, result, lambda sub, words: _screen_once(sub, extras, words))
 
 
 def _screen_once(

@@ -6,6 +6,12 @@ The numbers are those of :mod:`screening.engine.slip.geometry`, :mod:`.family` a
 circle); only the order of the sums over slices differs, so a factor agrees to about 1e-12.
 The kernel always works in double precision.
 
+``_refine`` is the pattern search of :func:`screening.engine.slip.search.search` on these
+circles, step for step (the same candidates, skips, choices and family records as its numpy
+loop). All of it is in this one file on purpose: numba's cache is invalidated by the file
+that holds a function, and a caller in another file would keep a stale copy of the circle
+function after an edit here.
+
 These are plain Python functions; :mod:`screening.engine.slip.kernel_search` compiles them
 with numba and says when the compiled code is ready. numba is optional: without it (or with
 :data:`ENABLED` set False) :func:`available` is False and the search uses the numpy path.
@@ -22,6 +28,8 @@ ENABLED = True
 """Set False to force the numpy path (tests and the benchmark compare the two)."""
 WATER = 9.81
 """Unit weight of water, kN/m3 (the same value as geometry.WATER_UNIT_WEIGHT_KN_M3)."""
+CUT = 1e-9
+"""geometry.CUT_TOLERANCE_M: how far inside the mass a layer must be crossed to count."""
 
 
 def _ground(gx, gy, i, x):
@@ -164,7 +172,7 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
             continue
         sr = math.sqrt(reach)
         x_cut = xc + sr
-        if not (0 < x_cut < big_l and xe < x_cut < xn):
+        if not (CUT < x_cut < big_l and xe + CUT < x_cut < xn):  # geometry.CUT_TOLERANCE_M
             continue
         p = lpull[i, m]
         hold = lfront[i, m] if xc - sr <= 0.0 else 0.0
@@ -249,3 +257,106 @@ def pack(section, soils, layers) -> tuple:
         np.ascontiguousarray(tangent, dtype=np.bool_),
     )  # fmt: skip
     return sec, soil, lay
+
+
+def _refine(
+    sec, soil, lay, counts, kh, tol, max_it, bounds, angles, bp, bf, steps, family, moves,
+    overlap, index, rounds, fam_f, fam_p, settle,
+):  # fmt: skip
+    exit_min, exit_max, entry_min, entry_max = bounds
+    fracs = _fractions(counts)
+    work = np.empty((4, fracs.shape[0]))
+    k, n_moves = bp.shape[1], moves.shape[0]
+    cand = np.empty((k, n_moves, 3))
+    raw = np.empty((k, n_moves, 3))
+    cf = np.empty((k, n_moves))
+    ccls = np.empty((k, n_moves), dtype=np.int64)
+    skip = np.empty(n_moves, dtype=np.bool_)
+    cok = np.empty(n_moves, dtype=np.bool_)
+    cgeo = np.empty((n_moves, 4))
+    last = np.empty(k, dtype=np.int64)
+    unclipped = np.zeros(k, dtype=np.bool_)
+    for i in range(bp.shape[0]):
+        last[:] = -1
+        for _ in range(rounds):
+            # Candidates, clipped as search._clip_params does.
+            for s in range(k):
+                for m in range(n_moves):
+                    for d in range(3):
+                        raw[s, m, d] = bp[i, s, d] + moves[m, d] * steps[i, s, d]
+                    e = min(max(raw[s, m, 0], exit_min[i]), exit_max[i])
+                    n_lo = max(entry_min[i], e + 1e-3)
+                    cand[s, m, 0] = e
+                    cand[s, m, 1] = min(max(raw[s, m, 1], n_lo), max(entry_max[i], n_lo))
+                    cand[s, m, 2] = min(max(raw[s, m, 2], angles[0]), angles[1])
+            # Points already known are skipped (search._known), the others evaluated; a start
+            # that stands where an earlier one stands, with the same steps, has the same
+            # candidates, so their values are copied (a free start and a family's own
+            # often begin on the same grid circle and never part).
+            for s in range(k):
+                twin = -1
+                for t in range(s):
+                    same = last[t] == last[s] and unclipped[t] == unclipped[s]
+                    for d in range(3):
+                        same = same and bp[i, t, d] == bp[i, s, d]
+                        same = same and steps[i, t, d] == steps[i, s, d]
+                    if same:
+                        twin = t
+                        break
+                if twin >= 0:
+                    for m in range(n_moves):
+                        cf[s, m], ccls[s, m] = cf[twin, m], ccls[twin, m]
+                    continue
+                for m in range(n_moves):
+                    code = 0
+                    centre = True
+                    for d in range(3):
+                        at = cand[s, m, d] == bp[i, s, d]
+                        centre = centre and at
+                        code = code * 3 + (1 if at else int(moves[m, d]) + 1)
+                    known = centre
+                    partner = index[code]
+                    if not known and partner >= 0 and partner != m:
+                        known = (
+                            cand[s, partner, 0] == cand[s, m, 0]
+                            and cand[s, partner, 1] == cand[s, m, 1]
+                            and cand[s, partner, 2] == cand[s, m, 2]
+                        )
+                    if last[s] >= 0 and overlap[last[s], m] and unclipped[s]:
+                        known = True
+                    skip[m] = known
+                _row(
+                    sec, soil, lay, i, cand[s], skip, counts, fracs, kh[i], tol, max_it, work,
+                    cf[s], cok, ccls[s], cgeo,
+                )  # fmt: skip
+                for m in range(n_moves):  # search.settled
+                    cf[s, m] = np.rint(cf[s, m] * settle) / settle
+            # Each family's best so far (search._keep_family_best: the first of the least).
+            for s in range(k):
+                for m in range(n_moves):
+                    c = ccls[s, m]
+                    if c >= 0 and cf[s, m] < fam_f[i, c]:
+                        fam_f[i, c] = cf[s, m]
+                        for d in range(3):
+                            fam_p[i, c, d] = cand[s, m, d]
+            # Each start moves to its best neighbour of its family, or halves its steps.
+            for s in range(k):
+                best, j = np.inf, 0
+                for m in range(n_moves):
+                    mine = family[s] == -1 or ccls[s, m] == family[s]
+                    if mine and cf[s, m] < best:
+                        best, j = cf[s, m], m
+                unclipped[s] = (
+                    cand[s, j, 0] == raw[s, j, 0]
+                    and cand[s, j, 1] == raw[s, j, 1]
+                    and cand[s, j, 2] == raw[s, j, 2]
+                )
+                if math.isfinite(best) and best < bf[i, s] - 1e-6:
+                    for d in range(3):
+                        bp[i, s, d] = cand[s, j, d]
+                    bf[i, s] = best
+                    last[s] = j
+                else:
+                    for d in range(3):
+                        steps[i, s, d] = 0.5 * steps[i, s, d]
+                    last[s] = -1

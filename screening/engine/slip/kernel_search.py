@@ -1,20 +1,20 @@
-"""The pattern search of :func:`screening.engine.slip.search.search`, compiled: every round of
-every start of every segment in one call instead of a numpy round trip per round.
+"""The compiled slip search: :mod:`screening.engine.slip.kernel` compiled with numba, and
+when to use it.
 
-It takes the same steps in the same order as the numpy loop (the same candidates, clipped
-the same way, the same points skipped as already known, the same first-best choice and the
-same family records), so the two give the same circles; tests/unit/test_slip_kernel.py
-checks it.
+Two compiled entry points: every circle of a batch (:func:`evaluate_circles`) and every
+round of the pattern search of every start of every segment in one call (:func:`refine`),
+instead of a numpy round trip per round. They give the numpy path's circles
+(tests/unit/test_slip_kernel.py checks it).
 
-It also compiles both kernels (numba, ``cache=True``: only the first run on a machine pays
-for it, a few seconds that bench/bench_speed.py prints) in a background thread, so a screen
-never waits for the compiler unless it asks to (:func:`warm_up`); until :func:`ready`, the
-search takes the numpy path, which gives the same numbers.
+The compilation (``cache=True``: only the first run on a machine pays for it, a few seconds
+that bench/bench_speed.py prints) runs in a background thread, so a screen never waits for
+the compiler unless it asks to (:func:`warm_up`); until :func:`ready`, the search takes the
+numpy path, and one screen keeps one path (:func:`pinned`).
 """
 
 from __future__ import annotations
 
-import math
+import contextlib
 import threading
 import time
 from types import SimpleNamespace as NS
@@ -25,109 +25,6 @@ from screening.engine.slip import kernel
 
 SETTLE = 1e10
 """Factors are compared on a 1e-10 grid (search.SETTLE says why)."""
-
-
-def _refine(
-    sec, soil, lay, counts, kh, tol, max_it, bounds, angles, bp, bf, steps, family, moves,
-    overlap, index, rounds, fam_f, fam_p, settle,
-):  # fmt: skip
-    exit_min, exit_max, entry_min, entry_max = bounds
-    fracs = kernel._fractions(counts)
-    work = np.empty((4, fracs.shape[0]))
-    k, n_moves = bp.shape[1], moves.shape[0]
-    cand = np.empty((k, n_moves, 3))
-    raw = np.empty((k, n_moves, 3))
-    cf = np.empty((k, n_moves))
-    ccls = np.empty((k, n_moves), dtype=np.int64)
-    skip = np.empty(n_moves, dtype=np.bool_)
-    cok = np.empty(n_moves, dtype=np.bool_)
-    cgeo = np.empty((n_moves, 4))
-    last = np.empty(k, dtype=np.int64)
-    unclipped = np.zeros(k, dtype=np.bool_)
-    for i in range(bp.shape[0]):
-        last[:] = -1
-        for _ in range(rounds):
-            # Candidates, clipped as search._clip_params does.
-            for s in range(k):
-                for m in range(n_moves):
-                    for d in range(3):
-                        raw[s, m, d] = bp[i, s, d] + moves[m, d] * steps[i, s, d]
-                    e = min(max(raw[s, m, 0], exit_min[i]), exit_max[i])
-                    n_lo = max(entry_min[i], e + 1e-3)
-                    cand[s, m, 0] = e
-                    cand[s, m, 1] = min(max(raw[s, m, 1], n_lo), max(entry_max[i], n_lo))
-                    cand[s, m, 2] = min(max(raw[s, m, 2], angles[0]), angles[1])
-            # Points already known are skipped (search._known), the others evaluated; a start
-            # that stands where an earlier one stands, with the same steps, has the same
-            # candidates, so their values are copied (a free start and a family's own
-            # often begin on the same grid circle and never part).
-            for s in range(k):
-                twin = -1
-                for t in range(s):
-                    same = last[t] == last[s] and unclipped[t] == unclipped[s]
-                    for d in range(3):
-                        same = same and bp[i, t, d] == bp[i, s, d]
-                        same = same and steps[i, t, d] == steps[i, s, d]
-                    if same:
-                        twin = t
-                        break
-                if twin >= 0:
-                    for m in range(n_moves):
-                        cf[s, m], ccls[s, m] = cf[twin, m], ccls[twin, m]
-                    continue
-                for m in range(n_moves):
-                    code = 0
-                    centre = True
-                    for d in range(3):
-                        at = cand[s, m, d] == bp[i, s, d]
-                        centre = centre and at
-                        code = code * 3 + (1 if at else int(moves[m, d]) + 1)
-                    known = centre
-                    partner = index[code]
-                    if not known and partner >= 0 and partner != m:
-                        known = (
-                            cand[s, partner, 0] == cand[s, m, 0]
-                            and cand[s, partner, 1] == cand[s, m, 1]
-                            and cand[s, partner, 2] == cand[s, m, 2]
-                        )
-                    if last[s] >= 0 and overlap[last[s], m] and unclipped[s]:
-                        known = True
-                    skip[m] = known
-                kernel._row(
-                    sec, soil, lay, i, cand[s], skip, counts, fracs, kh[i], tol, max_it, work,
-                    cf[s], cok, ccls[s], cgeo,
-                )  # fmt: skip
-                for m in range(n_moves):  # search.settled
-                    cf[s, m] = np.rint(cf[s, m] * settle) / settle
-            # Each family's best so far (search._keep_family_best: the first of the least).
-            for s in range(k):
-                for m in range(n_moves):
-                    c = ccls[s, m]
-                    if c >= 0 and cf[s, m] < fam_f[i, c]:
-                        fam_f[i, c] = cf[s, m]
-                        for d in range(3):
-                            fam_p[i, c, d] = cand[s, m, d]
-            # Each start moves to its best neighbour of its family, or halves its steps.
-            for s in range(k):
-                best, j = np.inf, 0
-                for m in range(n_moves):
-                    mine = family[s] == -1 or ccls[s, m] == family[s]
-                    if mine and cf[s, m] < best:
-                        best, j = cf[s, m], m
-                unclipped[s] = (
-                    cand[s, j, 0] == raw[s, j, 0]
-                    and cand[s, j, 1] == raw[s, j, 1]
-                    and cand[s, j, 2] == raw[s, j, 2]
-                )
-                if math.isfinite(best) and best < bf[i, s] - 1e-6:
-                    for d in range(3):
-                        bp[i, s, d] = cand[s, j, d]
-                    bf[i, s] = best
-                    last[s] = j
-                else:
-                    for d in range(3):
-                        steps[i, s, d] = 0.5 * steps[i, s, d]
-                    last[s] = -1
 
 
 FASTMATH = {"reassoc", "contract", "arcp", "nsz"}
@@ -143,6 +40,30 @@ def ready() -> bool:
     """True when the compiled kernels are loaded and may be used; the search takes the numpy
     path until then (the same numbers)."""
     return kernel.available() and _REFINE is not None
+
+
+_PINNED = threading.local()
+
+
+def use() -> bool:
+    """Whether the search in this thread uses the compiled kernels: what :func:`ready` said
+    when the thread's screen began (:func:`pinned`), else what it says now."""
+    value = getattr(_PINNED, "value", None)
+    return ready() if value is None else value and kernel.available()
+
+
+@contextlib.contextmanager
+def pinned():
+    """One screen, one path: the kernels finishing their load half-way through a screen do
+    not change its path, so a screen's numbers never depend on when they did (the two paths
+    agree to rounding, but a rare circle lying on a family or validity edge can take the
+    search another way)."""
+    outer = getattr(_PINNED, "value", None)
+    _PINNED.value = ready() if outer is None else outer
+    try:
+        yield
+    finally:
+        _PINNED.value = outer
 
 
 def start() -> None:
@@ -182,7 +103,7 @@ def _build() -> None:
             setattr(kernel, name, jit(getattr(kernel, name), fastmath=FASTMATH, inline="always"))
         kernel._fractions = jit(kernel._fractions)
         kernel._row = jit(kernel._row, fastmath=FASTMATH)
-        circles, refine_ = jit(kernel._circles), jit(_refine)
+        circles, refine_ = jit(kernel._circles), jit(kernel._refine)
         _try(circles, refine_)
         _CIRCLES, _REFINE = circles, refine_
     except Exception:  # noqa: BLE001 - any failure to compile leaves the numpy path in use

@@ -146,7 +146,7 @@ def _evaluate_params(section, soils, layers, params, density, kh):
     moment: (n, c, 4)); evaluated in chunks of circles
     (or all at once by the compiled kernel, in double precision)."""
     n, c, _ = params.shape
-    if kernel_search.ready():
+    if kernel_search.use():
         return kernel_search.evaluate_circles(
             section, soils, layers, params, density.slices, kh, TOLERANCE, MAX_ITERATIONS
         )
@@ -294,7 +294,7 @@ def search(
     last = np.full((n, k), -1, dtype=np.int64)
     unclipped = np.zeros((n, k), dtype=bool)
     rounds = density.refine_steps
-    if kernel_search.ready():  # the same rounds, compiled
+    if kernel_search.use():  # the same rounds, compiled
         bp, bf, fam_f, fam_p = kernel_search.refine(
             *fast, bounds, bp, bf, steps, family, moves, overlap, index, rounds,
             coarse.slices, kh, TOLERANCE, MAX_ITERATIONS, fam_f, fam_p,
