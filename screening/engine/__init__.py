@@ -14,7 +14,10 @@ from __future__ import annotations
 
 import importlib
 import importlib.util
+import multiprocessing
+import threading
 from collections.abc import Generator, Sequence
+from concurrent.futures import ProcessPoolExecutor
 from dataclasses import fields, replace
 
 import numpy as np
@@ -34,6 +37,7 @@ from screening.engine.context import (
 )
 from screening.engine.result import CDR_CAP, CheckArrays, CorridorResult, LayerArrays
 from screening.engine.sizing import evaluate, size_length
+from screening.engine.slip import kernel_search
 from screening.engine.spacing import closer_spacing
 from screening.engine.verdict import SIZING_CHECKS, decide
 from screening.model import CHECKS, Corridor, FactorSet
@@ -51,6 +55,22 @@ __all__ = [
 
 ENGINE_VERSION = __version__
 PLUGIN_MODULES = ("screening.engine.slip.compound", "screening.engine.checks.seismic")
+KERNEL_WAIT_SEGMENTS = 100
+"""A screen of this many segments or more waits for the compiled slip search (loaded from
+numba's cache in under a second; compiled in a few seconds on a machine's first run); a
+shorter one starts on the numpy path, which gives the same numbers, while it loads."""
+POOL_MIN_SEGMENTS = 1000
+"""A corridor this long or longer is screened by a pool of processes over chunks of
+segments; a shorter one (and the interface's one-segment path, and ``screen_iter``) in
+this process. Each segment's result does not depend on the others, so both give the same."""
+POOL_WORKERS: int | None = None
+"""Processes in the pool: None for one per CPU, 1 for no pool."""
+POOL_CHUNKS_PER_WORKER = 2
+"""Chunks per process, so the slow segments (long searches) spread over all of them..."""
+POOL_CHUNK_MIN = 500
+"""... but never fewer segments than this in a chunk: the engine works on whole arrays, and
+a small chunk pays the same fixed cost per step for less work (125-segment chunks took
+twice the CPU time per segment of one 1,000-segment screen)."""
 
 
 def default_extra_checks() -> tuple[ExtraCheck, ...]:
@@ -73,7 +93,52 @@ def screen(
     ``extra_checks`` None means :func:`default_extra_checks`; pass ``()`` for the core checks only.
     """
     extras = default_extra_checks() if extra_checks is None else tuple(extra_checks)
+    n = len(corridor.segments)
+    if n >= KERNEL_WAIT_SEGMENTS and extra_checks is None:
+        kernel_search.warm_up()  # a long screen waits for the compiled slip search
+    workers = _pool_workers(n, extra_checks)
+    if workers > 1:
+        return _screen_in_pool(corridor, factor_set, extra_checks is None, workers)
     return screen_arrays(build_arrays(corridor, factor_set), extras)
+
+
+def _pool_workers(n: int, extra_checks) -> int:
+    """How many processes screen ``n`` segments: 1 (this process) for short corridors, for
+    checks passed in by the caller (they may not travel to another process), off the main
+    thread or where processes cannot be forked."""
+    wanted = POOL_WORKERS if POOL_WORKERS is not None else multiprocessing.cpu_count()
+    if (
+        wanted <= 1
+        or n < POOL_MIN_SEGMENTS
+        or extra_checks not in (None, ())
+        or threading.current_thread() is not threading.main_thread()
+        or threading.active_count() > 1
+        or "fork" not in multiprocessing.get_all_start_methods()
+    ):
+        return 1
+    return int(min(wanted, max(1, n // POOL_CHUNK_MIN)))
+
+
+def _screen_chunk(corridor: Corridor, factor_set: FactorSet | None, plugins: bool):
+    extras = default_extra_checks() if plugins else ()
+    return screen_arrays(build_arrays(corridor, factor_set), extras)
+
+
+def _screen_in_pool(
+    corridor: Corridor, factor_set: FactorSet | None, plugins: bool, workers: int
+) -> CorridorResult:
+    """The screen over chunks of segments in ``workers`` forked processes, joined in order."""
+    if plugins:
+        kernel_search.warm_up()  # compiled (or loaded) once here; the forked processes inherit it
+    segs = corridor.segments
+    size = max(-(-len(segs) // (workers * POOL_CHUNKS_PER_WORKER)), POOL_CHUNK_MIN)
+    chunks = [replace(corridor, segments=segs[i : i + size]) for i in range(0, len(segs), size)]
+    context = multiprocessing.get_context("fork")
+    with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
+        parts = list(
+            pool.map(_screen_chunk, chunks, [factor_set] * len(chunks), [plugins] * len(chunks))
+        )
+    return concat(parts)
 
 
 def screen_iter(
@@ -104,8 +169,9 @@ def screen_arrays(a: SegmentArrays, extras: Sequence[ExtraCheck] = ()) -> Corrid
     spacing on the segments whose layers are too weak at any length and grade."""
     if a.n == 0:
         return _empty_screen(a, extras)
-    result = _screen_once(a, extras)
-    return closer_spacing(a, result, lambda sub, words: _screen_once(sub, extras, words))
+    with kernel_search.pinned():  # one path (compiled or numpy) for the whole screen
+        result = _screen_once(a, extras)
+        return closer_spacing(a, result, lambda sub, words: _screen_once(sub, extras, words))
 
 
 def _empty_screen(a: SegmentArrays, extras: Sequence[ExtraCheck]) -> CorridorResult:

@@ -14,7 +14,6 @@ import numpy as np
 
 from screening.engine.result import CDR_CAP, BoolArray, FloatArray
 from screening.engine.slip.density import STANDARD, WARM, SearchDensity
-from screening.engine.slip.geometry import Circles, make_slices
 from screening.engine.slip.search import CriticalCircle, SlipSearch, search
 from screening.engine.slip.wall import (
     Factors,
@@ -71,26 +70,6 @@ def factor_cases(method: str, cases) -> list[Factors]:
     return out or [Factors("unfactored")]
 
 
-def _driving_moment(section, soils, circ: CriticalCircle, density, kh) -> FloatArray:
-    """Driving moment (kN.m/m) of each segment's critical circle, with any pseudo-static part."""
-    col = lambda a, fill: np.nan_to_num(a, nan=fill)[:, None]  # noqa: E731
-    circles = Circles(
-        col(circ.x_exit_m, -1.0),
-        col(circ.x_entry_m, 1.0),
-        col(circ.x_exit_m, 0.0),
-        col(circ.x_entry_m, 0.0),
-        col(circ.centre_x_m, 0.0),
-        col(circ.centre_y_m, 10.0),
-        col(circ.radius_m, 10.0),
-        circ.found[:, None],
-    )
-    sl = make_slices(section, soils, circles, density.slices)
-    drive = circles.radius_m * np.sum(sl.weight_kn * sl.sin_a, axis=-1)
-    lever = circles.centre_y_m[..., None] - 0.5 * (sl.base_y_m + sl.top_y_m)
-    drive = drive + kh[:, None] * np.sum(sl.weight_kn * lever, axis=-1)
-    return np.where(circ.found, drive[:, 0], 0.0)
-
-
 def compound_check(
     inp: WallSlipInput,
     method: str,
@@ -108,6 +87,14 @@ def compound_check(
     to be near-critical (the same segments at other lengths; NaN where none); rows with any
     are refined from them with :data:`WARM` instead of a full search.
     """
+    unique, inverse = _distinct_rows(inp, kh, warm)
+    if unique.size < inp.n:
+        # Equal cross-sections (a profile gives many) are searched once.
+        pick = lambda a: None if a is None else np.asarray(a)[unique]  # noqa: E731
+        once = compound_check(
+            inp.take(unique), method, resistance, cases, density, pick(kh), pick(warm)
+        )
+        return CompoundResult(_expand(once.compound, inverse), _expand(once.global_, inverse))
     n = inp.n
     phi = np.where(
         inp.abutment,
@@ -130,14 +117,45 @@ def compound_check(
             sub_layers = _take(layers, rows)
             sub_kh = np.zeros(rows.size) if kh is None else np.asarray(kh, dtype=np.float64)[rows]
             found = _search_rows(sub, section, soils, sub_layers, density, sub_kh, warm, rows)
-            label = f"{f.name}, {'short term (cu)' if undrained else 'long term'}"
-            if not np.isfinite(inp.found_undrained_kpa).any():
-                label = f.name
+            # "long term" only where a foundation with cu is also checked short term (per
+            # row, so a segment's words never depend on the other segments of the batch).
+            term = "short term (cu)" if undrained else "long term"
+            label = np.where(
+                np.isfinite(sub.found_undrained_kpa), f"{f.name}, {term}", f.name
+            ).astype(object)
             for name in best:
                 circ = found.family(name)
-                drive = _driving_moment(section, soils, circ, density, sub_kh)
+                drive = circ.drive_knm_m
                 _merge(best[name], rows, circ, phi[rows], label, drive)
     return CompoundResult(_finish(best["compound"]), _finish(best["global"]))
+
+
+def _distinct_rows(inp: WallSlipInput, kh, warm) -> tuple[np.ndarray, np.ndarray]:
+    """Rows with distinct inputs (first of each) and, per row, its place among them: rows
+    equal in every input field, kh and known circles have the same result."""
+    values = [getattr(inp, f.name) for f in fields(inp)]
+    cols = [np.asarray(v, dtype=np.float64).reshape(inp.n, -1) for v in values if v is not None]
+    for extra in (kh, warm):
+        if extra is not None:
+            cols.append(np.asarray(extra, dtype=np.float64).reshape(inp.n, -1))
+    table = np.ascontiguousarray(np.concatenate(cols, axis=1))
+    rows = table.view(np.dtype((np.void, table.dtype.itemsize * table.shape[1])))[:, 0]
+    _, unique, inverse = np.unique(rows, return_index=True, return_inverse=True)
+    return unique, inverse.reshape(-1)
+
+
+def _expand(check: FamilyCheck, inverse: np.ndarray) -> FamilyCheck:
+    """A family's result on distinct rows, back on every row."""
+    return FamilyCheck(
+        **{
+            f.name: (
+                [getattr(check, f.name)[i] for i in inverse.tolist()]
+                if isinstance(getattr(check, f.name), list)
+                else getattr(check, f.name)[inverse]
+            )
+            for f in fields(check)
+        }
+    )
 
 
 def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSearch:
@@ -271,7 +289,7 @@ def _empty(n: int) -> dict:
     }
 
 
-def _merge(acc: dict, rows, circ: CriticalCircle, phi, label: str, drive) -> None:
+def _merge(acc: dict, rows, circ: CriticalCircle, phi, label: np.ndarray, drive) -> None:
     cdr = circ.factor * phi
     worse = cdr < acc["cdr"][rows]
     idx = rows[worse]
@@ -280,7 +298,7 @@ def _merge(acc: dict, rows, circ: CriticalCircle, phi, label: str, drive) -> Non
     acc["demand"][idx] = drive[worse]
     for key in ("centre_x_m", "centre_y_m", "radius_m", "converged", "found"):
         acc[key][idx] = getattr(circ, key)[worse]
-    acc["case"][idx] = label
+    acc["case"][idx] = label[worse]
     params = np.stack([circ.x_exit_m, circ.x_entry_m, circ.angle_rad], axis=-1)
     acc["params"][idx] = params[worse]
 

@@ -35,8 +35,6 @@ class SearchDensity:
     """Best grid circles (any family, from different exit groups) the pattern search starts from."""
     family_starts: int = 2
     """Best grid circles of each family (from different exit groups) searched within it."""
-    single_precision: bool = True
-    """Search in float32 (half the memory traffic); the final circles are evaluated in float64."""
     circles_per_chunk: int = 48
     """Circles evaluated together per segment (bounds memory: n x chunk x slices)."""
 

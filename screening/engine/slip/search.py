@@ -18,7 +18,8 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from screening.engine.result import BoolArray, FloatArray
-from screening.engine.slip.bishop import SliceForces, bishop_factor
+from screening.engine.slip import kernel_search
+from screening.engine.slip.bishop import MAX_ITERATIONS, TOLERANCE, SliceForces, bishop_factor
 from screening.engine.slip.density import STANDARD, SearchDensity
 from screening.engine.slip.family import COMPOUND, GLOBAL, INVALID, classify
 from screening.engine.slip.geometry import (
@@ -30,6 +31,7 @@ from screening.engine.slip.geometry import (
     make_slices,
     reinforcement_moment,
 )
+from screening.engine.slip.moves import MOVE_SETS, known_points, move_tables
 
 CHUNK_CIRCLES = 16_000
 """Segment-circles evaluated together (x slices each): bounds memory, keeps numpy busy."""
@@ -61,6 +63,8 @@ class CriticalCircle:
     """Angle the arc subtends at the centre (with x_exit_m, x_entry_m: the search parameters)."""
     converged: BoolArray
     found: BoolArray
+    drive_knm_m: FloatArray | None = None
+    """Driving moment about the centre (with any pseudo-static part), kN.m/m; 0 where none."""
 
 
 @dataclass(frozen=True)
@@ -92,6 +96,7 @@ _FIELDS = (
     "angle_rad",
     "converged",
     "found",
+    "drive_knm_m",
 )
 
 
@@ -108,6 +113,11 @@ def evaluate(
     ``kh`` (n,) adds a pseudo-static horizontal force kh*W at each slice's mid-height, whose
     moment about the centre drives the mass outwards.
     """
+    return _evaluate(section, soils, layers, circles, slices, kh)[:2]
+
+
+def _evaluate(section, soils, layers, circles, slices, kh):
+    """:func:`evaluate` and the driving moment of every circle (n, c), kN.m/m."""
     sl = make_slices(section, soils, circles, slices)
     forces = SliceForces(
         sl.weight_kn,
@@ -127,34 +137,48 @@ def evaluate(
     restoring = reinforcement_moment(section, layers, circles)
     result = bishop_factor(forces, restoring, drive)
     value = np.where(circles.valid, result.value, np.inf)
-    return value, result.converged | ~circles.valid
+    total = circles.radius_m * np.add.reduce(sl.weight_kn * sl.sin_a, axis=-1) + drive
+    return value, result.converged | ~circles.valid, total
 
 
 def _evaluate_params(section, soils, layers, params, density, kh):
-    """params (n, c, 3) -> factor, converged, family, circles; evaluated in chunks of circles."""
+    """params (n, c, 3) -> factor, converged, family, circles (centre x, y, radius, driving
+    moment: (n, c, 4)); evaluated in chunks of circles
+    (or all at once by the compiled kernel, in double precision)."""
     n, c, _ = params.shape
+    if kernel_search.use():
+        return kernel_search.evaluate_circles(
+            section, soils, layers, params, density.slices, kh, TOLERANCE, MAX_ITERATIONS
+        )
+    kernel_search.start()  # compiled in the background; the numpy path meanwhile
     # A chunk holds about CHUNK_CIRCLES segment-circles: few segments, many circles at once.
     step = max(1, density.circles_per_chunk, CHUNK_CIRCLES // max(n, 1))
     out_f, out_ok, out_cls, out_geo = [], [], [], []
     for start in range(0, c, step):  # chunks of trial circles, never of segments
         p = params[:, start : start + step]
         circles = make_circles(section, p[..., 0], p[..., 1], p[..., 2])
-        f, ok = evaluate(section, soils, layers, circles, density.slices, kh)
+        f, ok, drive = _evaluate(section, soils, layers, circles, density.slices, kh)
         cls = classify(section, circles)
         out_f.append(np.where(cls >= 0, f, np.inf))  # internal circles are not searched
         out_ok.append(ok)
         out_cls.append(cls)
-        out_geo.append(np.stack([circles.centre_x_m, circles.centre_y_m, circles.radius_m], -1))
+        out_geo.append(
+            np.stack([circles.centre_x_m, circles.centre_y_m, circles.radius_m, drive], -1)
+        )
     cat = np.concatenate
     return cat(out_f, 1), cat(out_ok, 1), cat(out_cls, 1), cat(out_geo, 1)
 
 
-_AXIS_MOVES = np.concatenate([np.eye(3), -np.eye(3)])
-"""The 6 axis neighbours."""
-_MOVES = np.array([m for m in np.ndindex(3, 3, 3) if m != (1, 1, 1)], dtype=np.float64) - 1.0
-"""The 26 neighbours of a point on the (exit, entry, angle) lattice."""
-_CORNER_MOVES = np.concatenate([_AXIS_MOVES, _MOVES[np.abs(_MOVES).sum(axis=1) == 3]])
-"""The 6 axis neighbours and the 8 corners."""
+SETTLE = kernel_search.SETTLE
+"""Factors are compared as multiples of 1/SETTLE (1e-10): circles whose factors differ only
+by rounding (1e-15) tie, and the first of them is taken, so neither the order of a sum nor
+which path evaluated a circle (compiled or numpy) can turn the search another way. Before,
+such ties went either way and a search could end in another local minimum."""
+
+
+def settled(f: FloatArray) -> FloatArray:
+    """``f`` rounded to the nearest multiple of 1/SETTLE (inf stays inf)."""
+    return np.rint(f * SETTLE) / SETTLE
 
 
 def _pick(a: np.ndarray, j: np.ndarray, n_moves: int) -> np.ndarray:
@@ -201,17 +225,6 @@ def _keep_family_best(fam_f, fam_p, f, cls, params):
     return fam_f, fam_p
 
 
-def _as32(obj):
-    """A copy of a slip dataclass with its float arrays in float32 (the search's working
-    precision: ample for F to 1e-4, and half the memory traffic)."""
-    return type(obj)(
-        *(
-            v.astype(np.float32) if isinstance(v, np.ndarray) and v.dtype == np.float64 else v
-            for v in (getattr(obj, f) for f in obj.__dataclass_fields__)
-        )
-    )
-
-
 def search(
     section: SlipSection,
     soils: SlipSoils,
@@ -234,14 +247,13 @@ def search(
     """
     n = section.n
     kh = np.zeros(n) if kh is None else np.asarray(kh, dtype=np.float64)
-    if density.single_precision:
-        fast = (_as32(section), _as32(soils), _as32(layers))
-        kh32 = kh.astype(np.float32)
-    else:
-        fast, kh32 = (section, soils, layers), kh
+    # Double precision throughout: the compiled kernel and the numpy path give the same
+    # numbers (a float32 search, as before, differed from them by about 1e-5 in F).
+    fast = (section, soils, layers)
     coarse = replace(density, slices=density.search_slices)
     grid = _clip_params(grid, bounds)
-    f, _, cls, _ = _evaluate_params(*fast, grid.astype(kh32.dtype), coarse, kh32)
+    f, _, cls, _ = _evaluate_params(*fast, grid, coarse, kh)
+    f = settled(f)
     tried = grid.shape[1]
     if initial_steps is None:
         initial_steps = np.stack(
@@ -275,13 +287,29 @@ def search(
         [INVALID] * free + [COMPOUND] * own[0].shape[1] + [GLOBAL] * own[1].shape[1]
     )
     steps = np.repeat(initial_steps[:, None, :], k, axis=1)
-    moves = {26: _MOVES, 14: _CORNER_MOVES}.get(density.moves, _AXIS_MOVES)
+    moves = MOVE_SETS.get(density.moves, MOVE_SETS[6])
     n_moves = moves.shape[0]
     wanted = np.repeat(family, n_moves)[None, :]
-    for _ in range(density.refine_steps):
-        cand = bp[:, :, None, :] + moves[None, None] * steps[:, :, None, :]  # (n, k, M, 3)
-        cand = _clip_params(cand.reshape(n, k * n_moves, 3), bounds)
-        cf, _, ccls, _ = _evaluate_params(*fast, cand.astype(kh32.dtype), coarse, kh32)
+    overlap, index = move_tables(moves)
+    last = np.full((n, k), -1, dtype=np.int64)
+    unclipped = np.zeros((n, k), dtype=bool)
+    rounds = density.refine_steps
+    if kernel_search.use():  # the same rounds, compiled
+        bp, bf, fam_f, fam_p = kernel_search.refine(
+            *fast, bounds, bp, bf, steps, family, moves, overlap, index, rounds,
+            coarse.slices, kh, TOLERANCE, MAX_ITERATIONS, fam_f, fam_p,
+        )  # fmt: skip
+        tried += rounds * k * n_moves
+        rounds = 0
+    for _ in range(rounds):
+        raw = bp[:, :, None, :] + moves[None, None] * steps[:, :, None, :]  # (n, k, M, 3)
+        cand = _clip_params(raw, bounds)
+        skip = known_points(bp, cand, moves, index, last, unclipped)
+        # Points already known are not evaluated again (NaN: the kernel skips them at once).
+        todo = np.where(skip[..., None], np.nan, cand).reshape(n, k * n_moves, 3)
+        cand = cand.reshape(n, k * n_moves, 3)
+        cf, _, ccls, _ = _evaluate_params(*fast, todo, coarse, kh)
+        cf = settled(cf)
         tried += k * n_moves
         fam_f, fam_p = _keep_family_best(fam_f, fam_p, cf, ccls, cand)
         cf = np.where((wanted == INVALID) | (ccls == wanted), cf, np.inf).reshape(n, k, n_moves)
@@ -291,9 +319,14 @@ def search(
         bp = np.where(better[..., None], _pick(cand, j, n_moves), bp)
         bf = np.where(better, pick, bf)
         steps = np.where(better[..., None], steps, 0.5 * steps)
+        last = np.where(better, j, -1)
+        unclipped = np.all(
+            _pick(cand, j, n_moves) == _pick(raw.reshape(cand.shape), j, n_moves), -1
+        )
     # The starts' circles and each family's best once more, full slices, double precision.
     final_p = np.concatenate([bp, fam_p], axis=1)  # (n, k + 2, 3)
     ff, fok, fcls, fgeo = _evaluate_params(section, soils, layers, final_p, density, kh)
+    ff = settled(ff)
     tried += k + 2
     ff = np.where(np.isfinite(np.concatenate([bf, fam_f], axis=1)), ff, np.inf)
     take = np.stack(
@@ -313,6 +346,7 @@ def search(
             centre_x_m=bgeo[:, k, 0] + nan,
             centre_y_m=bgeo[:, k, 1] + nan,
             radius_m=bgeo[:, k, 2] + nan,
+            drive_knm_m=np.where(found, bgeo[:, k, 3], 0.0),
             x_exit_m=bp[:, k, 0] + nan,
             x_entry_m=bp[:, k, 1] + nan,
             angle_rad=bp[:, k, 2] + nan,
