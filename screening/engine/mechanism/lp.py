@@ -118,6 +118,18 @@ class Outcome:
     """Row duals of the final LP (they price every candidate at >= 0)."""
 
 
+def _unbounded(cols: Columns, in_model: np.ndarray, rounds: int, seconds: float, solver: str):
+    """The outcome of an unbounded LP: collapse whatever the load factor (lambda = 0).
+
+    The LP is always feasible (the artificial column), so unbounded means a combination of
+    lines with no work of the factored loads and negative cost: a mechanism that the fixed
+    loads (pore pressures) drive by themselves added to one that the factored loads drive.
+    No positive factor on the factored loads holds the section, and with more candidate
+    lines the minimum can only fall, so the answer over all candidates is the same.
+    """
+    return Outcome(0.0, np.zeros(cols.n), in_model, rounds, 0, seconds, solver, None, None)
+
+
 def _status_error(status: str) -> EngineError:
     return EngineError(
         f"mechanism check: the linear programme ended with status '{status}' instead of "
@@ -182,6 +194,11 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
             h.clearSolver()
             h.run()
             status = h.getModelStatus()
+        if status in (
+            highspy.HighsModelStatus.kUnbounded,
+            highspy.HighsModelStatus.kUnboundedOrInfeasible,
+        ):
+            return _unbounded(cols, in_model, rounds + 1, time.perf_counter() - t0, "highspy")
         if status != highspy.HighsModelStatus.kOptimal:
             raise _status_error(h.modelStatusToString(status))
         iterations += int(h.getInfo().simplex_iteration_count)
@@ -291,6 +308,8 @@ def solve_scipy(cols: Columns, start: np.ndarray) -> Outcome:
             bounds=(0, None),
             method="highs",
         )
+        if res.status == 3:
+            return _unbounded(cols, in_model, rounds + 1, time.perf_counter() - t0, "scipy")
         if res.status != 0:
             raise _status_error(res.message)
         rounds += 1
