@@ -31,16 +31,21 @@ search (bench_compound.py), so a gap over 5 % is a mechanism the circles do not 
 UPPER_BOUND_WORDS = "upper bound (unsafe side)"
 
 
+def _cut(value: float) -> str:
+    """Three decimals, cut (never rounded up), so a factor under its target never reads as it."""
+    return f"{math.floor(value * 1000 + 1e-9) / 1000:.3f}"
+
+
 def mechanism_flag(factor: float, target: float, circles: float) -> tuple[bool, str]:
     """(flag, words) for one segment (module docstring); circles NaN when not known."""
     ub = UPPER_BOUND_WORDS
     has_circles = math.isfinite(circles) and circles > 0
     against = (
-        f"; slip circles F = {circles:.2f} (mechanism {100 * (factor / circles - 1):+.0f} %)"
+        f"; slip circles F = {circles:.3f} (mechanism {100 * (factor / circles - 1):+.0f} %)"
         if has_circles
         else ""
     )
-    head = f"mechanism check F = {factor:.2f}, {ub}, target {target:.2f}{against}"
+    head = f"mechanism check F = {_cut(factor)}, {ub}, target {target:.3f}{against}"
     reasons = []
     if factor < target:
         reasons.append("below the target even as an upper bound: the true factor is lower")
