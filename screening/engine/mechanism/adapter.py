@@ -123,7 +123,7 @@ def mechanism_cases(
                 label = f.name
                 if undrained[k]:
                     label = f"{f.name}, {'short term (cu)' if short else 'long term'}"
-                section, problem = _section(inp, k, f, short, a.ids[row])
+                section, problem = section_from_input(inp, k, f, short, a.ids[row])
                 out.append(
                     MechanismCase(row, a.ids[row], label, 1.0 / float(phi[k]), section, problem)
                 )
@@ -135,10 +135,11 @@ def _soil(gamma: float, c: float, phi_deg: float, f: Factors) -> SoilStrength:
     return SoilStrength(f.weight * gamma, c / f.cohesion, math.degrees(math.atan(tan_d)))
 
 
-def _section(
+def section_from_input(
     inp: WallSlipInput, k: int, f: Factors, short: bool, segment_id: str
 ) -> tuple[MechanismSection | None, str]:
-    """Row ``k`` of the slip input as a mechanism section under case ``f``."""
+    """Row ``k`` of the slip input as a mechanism section under case ``f`` (``short``: the
+    short-term, undrained foundation), or None and the reason when it is outside the model."""
     h = float(inp.height_m[k])
     d = float(inp.embedment_m[k])
     toe = float(inp.toe_slope_deg[k])

@@ -16,7 +16,7 @@ from a thread of the terminal interface.
 from __future__ import annotations
 
 import math
-import os
+import multiprocessing
 import time
 from collections.abc import Callable
 from dataclasses import dataclass, replace
@@ -131,7 +131,7 @@ def with_mechanism(result: CorridorResult, mech: MechanismResults) -> CorridorRe
 
 
 def default_workers() -> int:
-    return max(1, min(2, os.cpu_count() or 1))
+    return max(1, min(2, multiprocessing.cpu_count()))
 
 
 def run_mechanism(

@@ -1,17 +1,17 @@
 """A small process pool for the mechanism check: quiet, cancellable, and loud when it fails.
 
 Worker processes start by ``spawn`` (a fork of a process with threads, such as the terminal
-interface, can deadlock), write nothing to the terminal (stdout and stderr go to the null
-device, so a solver banner never reaches the command line's JSON) and hand answers and
-errors back through a queue. A worker that dies is an error at once, never a pool that
+interface, can deadlock), write nothing to the terminal (Python's stdout and stderr are
+closed in them, and HiGHS runs silent, ``lp._new_highs``, so nothing reaches the command
+line's JSON or the interface's screen) and hand answers and errors back through a queue. A worker that dies is an error at once, never a pool that
 keeps starting new ones; cancelling stops the workers where they are.
 """
 
 from __future__ import annotations
 
 import multiprocessing
-import os
 import queue
+import sys
 from collections.abc import Callable, Sequence
 
 from screening.model.errors import EngineError
@@ -21,11 +21,10 @@ WAIT_S = 0.2
 
 
 def quiet() -> None:
-    """This process writes nothing to the terminal from now on."""
-    null = os.open(os.devnull, os.O_WRONLY)
-    os.dup2(null, 1)
-    os.dup2(null, 2)
-    os.close(null)
+    """Python code in this process prints nothing from now on (print() to None is a no-op);
+    the solver's own output is off in ``lp._new_highs``."""
+    sys.stdout = None
+    sys.stderr = None
 
 
 def _worker(fn, tasks, answers) -> None:
