@@ -9,7 +9,7 @@ from textual.widget import Widget
 
 from screening.engine.mechanism.drawing import MechanismDrawing, drawing_for
 from screening.engine.mechanism.flags import UPPER_BOUND_WORDS
-from screening.tui.screens.mechanism_worker import store_for
+from screening.tui.screens.mechanism_worker import automatic, store_for
 
 BRAILLE_BASE = 0x2800
 DOT = ((0x01, 0x08), (0x02, 0x10), (0x04, 0x20), (0x40, 0x80))
@@ -99,6 +99,8 @@ class MechanismView(Widget):
                 head.append("runs on referred and marginal segments only", style="dim")
             elif store.running:
                 head.append(f"running: {store.done}/{store.total} segments done", style="dim")
+            elif not automatic():
+                head.append("off here (WALLSCREEN_MECHANISM=off)", style="dim")
             else:
                 head.append("not run yet: it runs after the next screen", style="dim")
             return head
