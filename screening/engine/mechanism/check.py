@@ -27,15 +27,16 @@ from screening.engine.arrays import build_arrays
 from screening.engine.mechanism.adapter import MechanismCase, mechanism_cases
 from screening.engine.mechanism.flags import mechanism_flag, mechanism_where
 from screening.engine.mechanism.pool import run_in_processes
-from screening.engine.mechanism.solve import strength_factor
+from screening.engine.mechanism.solve import FIRST_SLOPE, strength_factor
 from screening.engine.result import CorridorResult, FloatArray
 from screening.model import Corridor, FactorSet
 from screening.model.errors import EngineError, WallscreenError
 
-NODES = 300
-"""Working grid of the mechanism check (METHOD.md: bias and speed at this size)."""
-COARSE_NODES = 120
-"""Grid of the first, coarse search for F, and of the ranking of several cases."""
+NODES = 250
+"""Working grid of the mechanism check: about 0.7 s a factor on this machine and within
+about 1 % of the 300-node answer (bench_mechanism.py; METHOD.md section 6 for its bias)."""
+COARSE_NODES = 100
+"""Grid that ranks several cases of one segment (and starts their searches)."""
 CASE_SHORTLIST = 1.05
 """Cases whose coarse F is within this ratio of the least are solved on the working grid
 (the coarse bias is alike for the cases of one section: it ranks them)."""
@@ -229,13 +230,21 @@ def solve_segment(job: _Job) -> SegmentMechanism:
         why = job.cases[0].problem if job.cases else "not run: no case of the factor set"
         return _not_run(job, why, t0)
     try:
-        coarse = [strength_factor(c.section, nodes=job.coarse_nodes) for c in usable]
-        least = min(r.factor for r in coarse)
+        if len(usable) == 1 and math.isfinite(job.circles_factor):
+            # one case: the search starts from the circles' F (it only saves LPs; the
+            # working grid alone decides the answer)
+            starts = [(job.circles_factor, FIRST_SLOPE)]
+        else:
+            coarse = [strength_factor(c.section, nodes=job.coarse_nodes) for c in usable]
+            least = min(r.factor for r in coarse)
+            starts = [
+                (r.factor, r.slope) if r.factor <= CASE_SHORTLIST * least else None for r in coarse
+            ]
         best = None
-        for case, first in zip(usable, coarse, strict=True):
-            if len(usable) > 1 and first.factor > CASE_SHORTLIST * least:
+        for case, start in zip(usable, starts, strict=True):
+            if start is None:
                 continue
-            fine = strength_factor(case.section, nodes=job.nodes, start=(first.factor, first.slope))
+            fine = strength_factor(case.section, nodes=job.nodes, start=start)
             if best is None or fine.factor < best[1].factor:
                 best = (case, fine)
     except WallscreenError as err:

@@ -264,6 +264,9 @@ FIRST_SLOPE = 3.0
 cohesive strength, faster for frictional (dilation falls with tan phi'/F); 3 landed near the
 root on the bench walls (measured)."""
 COARSE_RTOL = 1e-2
+COLLAPSE_STEP = 1.1
+"""Step down in F from a collapse (lambda = 0: no slope to go by) before the root is
+bracketed; the start is usually within 10 % of the root (coarse grid or slip circles)."""
 STEP_RTOL = 1e-2
 """Tolerance on F where lambda steps from above 1 to 0 (c' = 0: a frictional mechanism
 starts to do work for nothing): bisection only narrows a step, so it stops at 1 % and
@@ -321,7 +324,7 @@ def _find_root(
         else:
             if f <= F_MIN:
                 return 0.0, f, slope
-            step = (1.0 / lam) ** (1.0 / slope) * (1.0 + 2.0 * rtol) if lam > 0 else STEP_RANGE[1]
+            step = (1.0 / lam) ** (1.0 / slope) * (1.0 + 2.0 * rtol) if lam > 0 else COLLAPSE_STEP
             f = max(f / float(np.clip(step, STEP_RANGE[0], cap)), F_MIN)
     raise EngineError(
         f"mechanism check: the strength factor did not settle in {ROOT_STEPS} linear programmes"
