@@ -92,6 +92,8 @@ async def test_runs_after_the_screen_with_progress_and_shows_in_detail(small_fil
             assert kept.answer(session, i).factor == pytest.approx(fresh.factor[i], rel=1e-9)
         clear_row = next(i for i in range(len(session.result)) if i not in flagged_rows)
         assert kept.answer(session, clear_row) is None
+        saved = store.dumps(session.corridor, mechanism_worker.result_with_mechanism(session))
+        assert saved.count("mechanism_factor = ") == 3
 
         row = flagged_rows[0]
         app.corridor_screen.table.move_cursor(row=row)

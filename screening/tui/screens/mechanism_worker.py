@@ -58,6 +58,21 @@ def store_for(session) -> MechanismStore:
     return _STORES[session]
 
 
+def result_with_mechanism(session):
+    """``session.result`` with the mechanism answers that still hold in its extras (for a
+    save: ``store.save(path, session.corridor, result_with_mechanism(session))`` writes them
+    into ``[segment.result]``); the result itself when there are none."""
+    result = session.result
+    if result is None:
+        return None
+    store = store_for(session)
+    rows = [store.answer(session, i) for i in range(len(result))]
+    if not any(rows):
+        return result
+    mech = check.MechanismResults(list(result.ids), rows, 0.0)
+    return check.with_mechanism(result, mech)
+
+
 def automatic() -> bool:
     return os.environ.get("WALLSCREEN_MECHANISM", "on").strip().lower() not in ("off", "0", "no")
 
