@@ -176,3 +176,26 @@ def test_runs_only_where_asked_and_never_changes_a_verdict(plain):
     merged = with_mechanism(result, everything)
     assert merged.verdict == result.verdict and merged.reasons == result.reasons
     assert np.array_equal(merged.length_m, result.length_m)
+
+
+def test_outside_the_model_is_said_not_guessed():
+    """A backslope of 45 deg (the corridor file allows it, the mechanism model does not) is
+    not run, and the words say which field and what would be valid (common practice, no
+    source); a rock foundation runs with the model's base at the base of the wall."""
+    from dataclasses import replace as dc_replace
+
+    from screening.engine.samples import FOUNDATION
+
+    corridor = make_corridor(
+        [
+            make_segment(0, backslope_deg=45.0),
+            make_segment(1, foundation=dc_replace(FOUNDATION, rock=True)),
+        ]
+    )
+    result = screen(corridor)
+    mech = run_mechanism(corridor, result, "all", workers=1, nodes=100, coarse_nodes=50)
+    steep, rock = mech.segments
+    assert not np.isfinite(steep.factor) and steep.flag is None
+    assert steep.words.startswith("not run: backslope_deg") and "less than 45" in steep.words
+    assert np.isfinite(rock.factor) and rock.factor > 0
+    assert list(mech.ran) == [False, True]

@@ -127,8 +127,8 @@ def _rules(s: MechanismSection):
     yield "design_height_m", h > 0, "a height above 0 m"
     yield "embedment_m", 0 <= s.embedment_m < h, "at least 0 m and less than the design height"
     yield "length_m", s.length_m > 0, "a length above 0 m"
-    yield "backslope_deg", 0 <= s.backslope_deg < 45, "0 to 45 degrees"
-    yield "toe_slope_deg", 0 <= s.toe_slope_deg < 60, "0 to 60 degrees"
+    yield "backslope_deg", 0 <= s.backslope_deg < 45, "0 to less than 45 degrees"
+    yield "toe_slope_deg", 0 <= s.toe_slope_deg < 60, "0 to less than 60 degrees"
     yield "toe_slope_fall_m", s.toe_slope_fall_m >= 0, "0 m or more"
     yield (
         "depth_to_firm_m",
