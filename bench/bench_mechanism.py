@@ -13,7 +13,16 @@ Prints:
    300-segment corridor), total and per wall (target: the whole share <= 60 s on this
    2-core machine);
 4. the warm-start comparison behind the choice in solve.py: the wall's strength factor with
-   the previous LP's basis carried over and without.
+   the previous LP's basis carried over and without;
+5. one factor as the mechanism check runs it (check.NODES with the coarse start), three
+   times: nodes and seconds (target <= 1 s at 300-400 nodes);
+6. (--bias) the discretisation bias behind the flag's allowance: F of demo segments at the
+   working grid against a grid of ~700 nodes;
+7. the mechanism check on every referred or marginal segment of a ``--corridor``-segment
+   corridor (the demo corridor repeated, heights varied by up to 8 % so that no two
+   sections are alike) in 2 worker processes (target <= 60 s).
+
+``--check-only`` runs items 5-7 only.
 
 The walls are invented for the benchmark, not a design case.
 """
@@ -110,7 +119,13 @@ def main() -> None:
     ap.add_argument("--nodes", type=int, default=350)
     ap.add_argument("--walls", type=int, default=30)
     ap.add_argument("--quick", action="store_true", help="skip the convergence table")
+    ap.add_argument("--check-only", action="store_true", help="items 5-7 only")
+    ap.add_argument("--bias", action="store_true", help="item 6 (slow: ~700-node grids)")
+    ap.add_argument("--corridor", type=int, default=300, help="segments of item 7 (0: skip)")
     args = ap.parse_args()
+    if args.check_only:
+        check_items(args)
+        return
     load_factor(footing_problem(), nodes=60)  # imports and first HiGHS instance
     print("mechanism check (DLO): every factor is an upper bound, on the unsafe side\n")
     print("1. one factor")
@@ -159,6 +174,72 @@ def main() -> None:
         print(line("lines and last basis", strength_factor(wall, nodes=args.nodes)))
     finally:
         solve_module.solve_highs = original
+    check_items(args)
+
+
+def varied_corridor(n: int, seed: int = 5):
+    """The demo corridor repeated to ``n`` segments, every height scaled by 0.92-1.0."""
+    from dataclasses import replace
+
+    from screening import store
+    from screening.engine.samples import repeated
+    from screening.model.presets import demo_corridor_path
+
+    rng = np.random.default_rng(seed)
+    base = repeated(store.load(demo_corridor_path()), n)
+    segs = []
+    for seg in base.segments:
+        k = float(rng.uniform(0.92, 1.0))
+        segs.append(
+            replace(seg, height_start_m=seg.height_start_m * k, height_end_m=seg.height_end_m * k)
+        )
+    return replace(base, segments=tuple(segs))
+
+
+def check_items(args) -> None:
+    from screening import store
+    from screening.engine import screen
+    from screening.engine.arrays import build_arrays
+    from screening.engine.mechanism import check
+    from screening.engine.mechanism.adapter import mechanism_cases
+    from screening.model.presets import demo_corridor_path
+
+    print(f"\n5. one factor as the check runs it ({check.NODES} nodes, coarse start)")
+    wall = invented_wall(6.0)
+    for _ in range(3):
+        r = strength_factor(wall, nodes=check.NODES, coarse_nodes=check.COARSE_NODES)
+        print(line("6 m wall (check's grid)", r))
+    if args.bias:
+        print("\n6. discretisation bias: demo segments, working grid against ~700 nodes")
+        demo = store.load(demo_corridor_path())
+        result = screen(demo)
+        rows = check.needs_mechanism(result)
+        for case in mechanism_cases(build_arrays(demo), result, rows):
+            if case.section is None:
+                continue
+            work = strength_factor(case.section, nodes=check.NODES, coarse_nodes=120)
+            fine = strength_factor(case.section, nodes=700, coarse_nodes=120)
+            print(
+                f"{case.segment_id:<7} {case.case:<28} F {work.factor:.3f} ({work.nodes}) "
+                f"vs {fine.factor:.3f} ({fine.nodes}): {100 * (work.factor / fine.factor - 1):+.1f} %"
+            )
+    if args.corridor:
+        corridor = varied_corridor(args.corridor)
+        t0 = time.perf_counter()
+        result = screen(corridor)
+        t_screen = time.perf_counter() - t0
+        rows = check.needs_mechanism(result)
+        print(
+            f"\n7. {len(corridor.segments)}-segment corridor: screened in {t_screen:.1f} s, "
+            f"{rows.size} referred or marginal segments"
+        )
+        mech = check.run_mechanism(corridor, result, workers=2)
+        per = np.array([s.seconds for s in mech.segments if s is not None])
+        print(
+            f"mechanism check on {rows.size} segments, 2 processes: {mech.seconds:.1f} s "
+            f"(per segment in its process: mean {per.mean():.2f} s, max {per.max():.2f} s; "
+            f"{len(mech.flagged())} flagged)"
+        )
 
 
 if __name__ == "__main__":

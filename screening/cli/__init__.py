@@ -39,6 +39,14 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("--json", action="store_true", help="print JSON instead of a table")
     c.add_argument("--factor-set", metavar="ID", help="screen under this factor set instead")
     c.add_argument("--strict", action="store_true", help="exit 1 when any segment is referred")
+    c.add_argument(
+        "--mechanism",
+        nargs="?",
+        const="flagged",
+        choices=("flagged", "all"),
+        help="also run the mechanism check (limit analysis, an upper bound: unsafe side) on "
+        "the referred and marginal segments, or =all on every segment",
+    )
 
     r = sub.add_parser("report", help="write a report (.html, .md or .csv)")
     r.add_argument("file", type=Path)
@@ -53,6 +61,14 @@ def _parser() -> argparse.ArgumentParser:
         help="add each segment's probability of refer over N seeded samples",
     )
     r.add_argument("--seed", type=int, default=0, help="seed of the Monte Carlo samples")
+    r.add_argument(
+        "--mechanism",
+        nargs="?",
+        const="flagged",
+        choices=("flagged", "all"),
+        help="add the mechanism check (an upper bound: unsafe side) and its drawings for the "
+        "referred and marginal segments, or =all",
+    )
     r.add_argument(
         "--no-sensitivity",
         action="store_true",

@@ -40,10 +40,27 @@ def _load_and_screen(path: Path, factor_set_id: str | None):
     return corridor, screen(corridor), stored
 
 
+def _with_mechanism(corridor, result, which: str | None):
+    """``result`` with the mechanism check's values in its extras (``which``: flagged |
+    all | None for none); progress on stderr when it is a terminal."""
+    if not which:
+        return result
+    from screening.engine.mechanism.check import run_mechanism, with_mechanism
+
+    def progress(done: int, total: int) -> None:
+        print(f"\rmechanism check: {done}/{total} segments", end="", file=sys.stderr)
+        if done == total:
+            print(file=sys.stderr)
+
+    tell = progress if sys.stderr.isatty() else None
+    return with_mechanism(result, run_mechanism(corridor, result, which, progress=tell))
+
+
 def cmd_check(args: argparse.Namespace) -> int:
     corridor, result, stored = _load_and_screen(args.file, args.factor_set)
     for line in stale_results(args.file, stored, result):
         print(f"wallscreen: warning: {line}", file=sys.stderr)
+    result = _with_mechanism(corridor, result, args.mechanism)
     if args.json:
         from screening.cli.jsonout import corridor_json
 
@@ -100,10 +117,13 @@ def _table(corridor, result) -> str:
     from screening import CAUTION
     from screening.engine.result import cdr_text
 
+    mech = result.extras.get("mechanism_factor")
     head = (
         f"{'segment':<10} {'chainage m':>17} {'Hd m':>6} {'L m':>6} {'L/H':>5} "
-        f"{'L set by':<16} {'least margin':<20}  verdict"
+        f"{'L set by':<16} {'least margin':<20}  verdict     "
     )
+    if mech is not None:
+        head += f"{'mech. F':>7} {'target':>6}"
     lines = [
         f"{corridor.name}  —  factor set {result.factor_set}, engine {result.engine_version}",
         head,
@@ -113,11 +133,14 @@ def _table(corridor, result) -> str:
         v = result.verdict[i]
         ch = f"{seg.chainage_start_m:8.1f}–{seg.chainage_end_m:<8.1f}"
         margin = _margin_words(result, i, cdr_text)
-        lines.append(
+        row = (
             f"{seg.id:<10} {ch:>17} {result.design_height_m[i]:6.2f} {result.length_m[i]:6.1f} "
             f"{result.length_ratio[i]:5.2f} {result.length_set_by[i]:<16} {margin:<20}  "
-            f"{VERDICT_MARK[v]} {v}"
+            f"{VERDICT_MARK[v]} {v:<8}  "
         )
+        if mech is not None:
+            row += _mechanism_cells(result, i)
+        lines.append(row.rstrip())
     counts = result.counts()
     lines.append("")
     lines.append(
@@ -137,9 +160,44 @@ def _table(corridor, result) -> str:
     if refer_reasons:
         lines.append("Why:")
         lines.extend(refer_reasons)
+    if mech is not None:
+        lines.extend(_mechanism_notes(result))
     lines.append("")
     lines.append(CAUTION)
     return "\n".join(lines)
+
+
+def _mechanism_cells(result, i: int) -> str:
+    """Mechanism factor, target and flag mark ("!" flagged) of one row; "-" not run."""
+    import math
+
+    from screening.engine.result import cdr_text
+
+    factor = float(result.extras["mechanism_factor"][i])
+    if not math.isfinite(factor):
+        return f"{'-':>7}"
+    target = float(result.extras["mechanism_target"][i])
+    mark = " !" if result.extras["mechanism_flag"][i] else ""
+    return f"{cdr_text(factor):>7} {target:6.2f}{mark}"
+
+
+def _mechanism_notes(result) -> list[str]:
+    """What the mechanism columns mean, and the words of every segment it flagged."""
+    from screening.engine.mechanism.flags import UPPER_BOUND_WORDS
+
+    words = result.extras["mechanism_words"]
+    flagged = [i for i, f in enumerate(result.extras["mechanism_flag"]) if f]
+    out = [
+        "",
+        f"mech. F: mechanism check (limit analysis, DLO), an {UPPER_BOUND_WORDS}: the true "
+        "factor may be lower. A cross-check, never the design number; it changes no verdict. "
+        "target: the strength factor the factor set asks for (1/phi or FS). !: flagged.",
+        f"Mechanism check flags {len(flagged)} segment(s):" if flagged else "No segment flagged.",
+    ]
+    out.extend(f"  {result.ids[i]}: {words[i]}" for i in flagged)
+    not_run = [i for i, w in enumerate(words) if w.startswith("not run")]
+    out.extend(f"  {result.ids[i]}: mechanism check {words[i]}" for i in not_run)
+    return out
 
 
 def cmd_report(args: argparse.Namespace) -> int:
@@ -153,6 +211,7 @@ def cmd_report(args: argparse.Namespace) -> int:
             file=str(args.output),
         )
     corridor, result, _ = _load_and_screen(args.file, args.factor_set)
+    result = _with_mechanism(corridor, result, args.mechanism)
     if args.monte_carlo < 0:
         raise InputError(
             "--monte-carlo must be 0 or a positive number of samples", file="--monte-carlo"

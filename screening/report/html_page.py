@@ -10,6 +10,7 @@ from screening.report import tables
 from screening.report.assumptions import assumptions
 from screening.report.data import ReportData
 from screening.report.figures import VERDICT_COLOUR, cross_section_png, long_section_png, walls
+from screening.report.mechanism_figure import mechanism_figure_html
 from screening.report.tables import Table
 
 STYLE = """
@@ -114,6 +115,7 @@ def render_html(data: ReportData) -> str:
     for i in data.cross_sections:
         png = cross_section_png(c, r, i, data.display)
         add(_img(png, f"cross-section of {r.ids[i]}", f"{r.ids[i]}: {'; '.join(r.reasons[i])}"))
+        add(mechanism_figure_html(c, r, i))
 
     add('<h2 id="segments">Segments</h2>')
     add(table_html(tables.segments(data)))

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import dataclasses
 import datetime
+import math
 import os
 from pathlib import Path
 from typing import Any
@@ -156,8 +157,25 @@ def _segment_table(
             "min_cdr": cdr_cut(float(result.min_cdr[row]), 3),
             "length_set_by": result.length_set_by[row],
             "reasons": list(result.reasons[row]),
+            **_mechanism_values(result, row),
         }
     return out
+
+
+def _mechanism_values(result: Any, row: int) -> dict[str, Any]:
+    """The mechanism check's values of a row, only where it ran (an upper bound: the words
+    say so); nothing when the screen carries none."""
+    factor = result.extras.get("mechanism_factor")
+    if factor is None or not math.isfinite(float(factor[row])):
+        return {}
+    ex = result.extras
+    return {
+        "mechanism_factor": cdr_cut(float(factor[row]), 3),
+        "mechanism_target": round(float(ex["mechanism_target"][row]), 3),
+        "mechanism_nodes": int(ex["mechanism_nodes"][row]),
+        "mechanism_flag": bool(ex["mechanism_flag"][row]),
+        "mechanism_words": str(ex["mechanism_words"][row]),
+    }
 
 
 def dumps(

@@ -17,6 +17,7 @@ def private_config(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
     folder = tmp_path / "config"
     monkeypatch.setenv("XDG_CONFIG_HOME", str(folder))
     monkeypatch.delenv("NO_COLOR", raising=False)
+    monkeypatch.setenv("WALLSCREEN_MECHANISM", "off")  # its own tests turn it on
     return folder / "wallscreen"
 
 

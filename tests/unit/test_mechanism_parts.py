@@ -119,10 +119,33 @@ def _unbounded() -> Columns:
 
 
 @pytest.mark.parametrize("solve", [solve_highs, solve_scipy])
-def test_lp_status_is_checked(solve):
-    """An LP that does not end optimal is an EngineError that says so, never a number."""
+def test_unbounded_lp_is_collapse(solve):
+    """LP duality (common practice, no source): the LP is always feasible, so unbounded
+    means a direction of zero work and negative cost: no positive load factor holds the
+    section, and it is reported as collapse (lambda = 0) with no mechanism, not a number
+    of the solver's."""
+    out = solve(_unbounded(), np.array([True]))
+    assert out.value == 0.0
+    assert not out.multipliers.any()
+
+
+def test_lp_status_is_checked(monkeypatch):
+    """An LP that ends neither optimal nor unbounded (here: an iteration limit of 0) is an
+    EngineError that says so, never a number."""
+    from screening.engine.mechanism import lp
+
+    original = lp._new_highs
+
+    def limited(highspy):
+        h = original(highspy)
+        h.setOptionValue("simplex_iteration_limit", 0)
+        return h
+
+    monkeypatch.setattr(lp, "_new_highs", limited)
+    layout = build_layout(footing_problem(), 80)
+    cols = columns(layout, 1.0, ("footing",))
     with pytest.raises(EngineError, match="instead of optimal"):
-        solve(_unbounded(), np.array([True]))
+        solve_highs(cols, np.repeat(layout.lines.initial, 2))
 
 
 def test_duals_prove_optimality_over_all_candidates():

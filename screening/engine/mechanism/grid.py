@@ -138,7 +138,11 @@ def make_nodes(problem: Problem, spacing_m: float) -> Nodes:
     if f is not None:
         under = (x > f.x0_m + TOL_M) & (x < f.x1_m - TOL_M)
         is_free &= ~under
-    return Nodes(x, y, np.concatenate(ci), np.concatenate(ri), is_free, cols, rows)
+    keep = np.ones(x.shape, dtype=bool)
+    for xf, y0, y1 in problem.held_faces:
+        keep &= ~((np.abs(x - xf) <= TOL_M) & (y > y0 + TOL_M) & (y < y1 - TOL_M))
+    ci, ri = np.concatenate(ci)[keep], np.concatenate(ri)[keep]
+    return Nodes(x[keep], y[keep], ci, ri, is_free[keep], cols, rows)
 
 
 def nodes_for_count(problem: Problem, target: int, rounds: int = 8) -> Nodes:

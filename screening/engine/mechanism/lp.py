@@ -118,6 +118,28 @@ class Outcome:
     """Row duals of the final LP (they price every candidate at >= 0)."""
 
 
+def _unbounded(cols: Columns, in_model: np.ndarray, rounds: int, seconds: float, solver: str):
+    """The outcome of an unbounded LP: collapse whatever the load factor (lambda = 0).
+
+    The LP is always feasible (the artificial column), so unbounded means a combination of
+    lines with no work of the factored loads and negative cost: a mechanism that the fixed
+    loads (pore pressures) drive by themselves added to one that the factored loads drive.
+    No positive factor on the factored loads holds the section, and with more candidate
+    lines the minimum can only fall, so the answer over all candidates is the same.
+    """
+    return Outcome(0.0, np.zeros(cols.n), in_model, rounds, 0, seconds, solver, None, None)
+
+
+COLLAPSE_TOL = 1e-9
+
+
+def _collapsed(objective: float, artificial: float) -> bool:
+    """A restricted LP already at lambda <= 0 (a mechanism that the factored loads drive for
+    no dissipation): more lines can only lower it, so the answer is collapse; column
+    generation stops there (it would end unbounded or at 0 after costly rounds)."""
+    return artificial < 0.5 and objective <= COLLAPSE_TOL
+
+
 def _status_error(status: str) -> EngineError:
     return EngineError(
         f"mechanism check: the linear programme ended with status '{status}' instead of "
@@ -177,16 +199,27 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
     while True:
         h.run()
         status = h.getModelStatus()
-        if status != highspy.HighsModelStatus.kOptimal:
+        unbounded = (
+            highspy.HighsModelStatus.kUnbounded,
+            highspy.HighsModelStatus.kUnboundedOrInfeasible,
+        )
+        if status != highspy.HighsModelStatus.kOptimal and status not in unbounded:
             # a stale basis can leave the solver stuck: once more from scratch, then give up
             h.clearSolver()
             h.run()
             status = h.getModelStatus()
+        if status in unbounded:
+            return _unbounded(cols, in_model, rounds + 1, time.perf_counter() - t0, "highspy")
         if status != highspy.HighsModelStatus.kOptimal:
             raise _status_error(h.modelStatusToString(status))
         iterations += int(h.getInfo().simplex_iteration_count)
         rounds += 1
         dual = np.asarray(h.getSolution().row_dual)
+        if _collapsed(h.getInfo().objective_function_value, h.getSolution().col_value[0]):
+            out = _unbounded(cols, in_model, rounds, time.perf_counter() - t0, "highspy")
+            # keep the collapsing mechanism's lines: the next LP starts from them
+            out.multipliers[np.concatenate(order)] = np.asarray(h.getSolution().col_value)[1:]
+            return out
         new = _select(cols, cols.reduced_cost(dual), in_model, _batch(int(in_model.sum())))
         if new.size == 0 or rounds >= MAX_ROUNDS:
             break
@@ -291,6 +324,8 @@ def solve_scipy(cols: Columns, start: np.ndarray) -> Outcome:
             bounds=(0, None),
             method="highs",
         )
+        if res.status == 3:
+            return _unbounded(cols, in_model, rounds + 1, time.perf_counter() - t0, "scipy")
         if res.status != 0:
             raise _status_error(res.message)
         rounds += 1

@@ -129,6 +129,9 @@ class Problem:
     layers: tuple[Layer, ...] = ()
     water_level_m: float = -np.inf
     label: str = ""
+    held_faces: tuple[tuple[float, float, float], ...] = ()
+    """(x, y0, y1): a facing holds the vertical ground face at x strictly between y0 and y1:
+    no node there, so no discontinuity leaves the soil through that part of the face."""
     breaks_m: np.ndarray = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:

@@ -9,6 +9,11 @@ in 0 <= x <= L, 0 <= y <= H, retained fill behind x = L and above the wall top. 
 surcharges act on the ground behind the face (x > 0). The firm layer (fixed base of the
 model) lies ``depth_to_firm_m`` below the base of the reinforced zone; both far sides are
 fixed and far enough not to matter (METHOD.md).
+
+With layers, the facing holds the face above the top layer: no mechanism leaves the face
+there (the facing spans from the top layer to the wall top, as it does in the internal
+checks; without it a cohesionless vertical face above the top layer collapses at any
+strength, lambda = 0, whatever the wall below it does) [cp].
 """
 
 from __future__ import annotations
@@ -122,8 +127,8 @@ def _rules(s: MechanismSection):
     yield "design_height_m", h > 0, "a height above 0 m"
     yield "embedment_m", 0 <= s.embedment_m < h, "at least 0 m and less than the design height"
     yield "length_m", s.length_m > 0, "a length above 0 m"
-    yield "backslope_deg", 0 <= s.backslope_deg < 45, "0 to 45 degrees"
-    yield "toe_slope_deg", 0 <= s.toe_slope_deg < 60, "0 to 60 degrees"
+    yield "backslope_deg", 0 <= s.backslope_deg < 45, "0 to less than 45 degrees"
+    yield "toe_slope_deg", 0 <= s.toe_slope_deg < 60, "0 to less than 60 degrees"
     yield "toe_slope_fall_m", s.toe_slope_fall_m >= 0, "0 m or more"
     yield (
         "depth_to_firm_m",
@@ -215,6 +220,7 @@ def wall_problem(s: MechanismSection) -> Problem:
         layers=layers,
         water_level_m=s.water_level_m,
         label=s.segment_id or "wall",
+        held_faces=((0.0, max(levels), h),) if levels else (),
     )
 
 

@@ -9,7 +9,7 @@ discretisation error is on the unsafe side (METHOD.md in this folder gives the m
 from __future__ import annotations
 
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -75,6 +75,8 @@ class MechanismResult:
     history: tuple[tuple[float, float], ...]
     """(strength factor, load factor) of every LP solved."""
     note: str = UPPER_BOUND_NOTE
+    slope: float = 3.0
+    """-d log lambda / d log F near the answer (strength factors; a start for a finer grid)."""
 
 
 def _problem(model: MechanismSection | Problem) -> Problem:
@@ -215,6 +217,8 @@ def strength_factor(
     nodes: int = DEFAULT_NODES,
     solver: str = "auto",
     rtol: float = 3e-3,
+    coarse_nodes: int | None = None,
+    start: tuple[float, float] | None = None,
 ) -> MechanismResult:
     """Strength reduction factor F with lambda(F) = 1 on the gravity loads (upper bound).
 
@@ -223,51 +227,108 @@ def strength_factor(
     term as the slip-circle check, where the layer forces join the resisting moment that F
     divides, so the two checks compare like with like; pullout is itself frictional.
     lambda(F) is monotone but not smooth (a step where c' = 0: no mechanism below some F,
-    free collapse above), so F is bracketed and found by scipy.optimize.brentq on
-    lambda(F) - 1 (bisection steps whenever interpolation fails), never by a secant on
-    log lambda. Each LP starts from the lines of the one before. F = 0: even at F = 1/64 the
-    section collapses (for example a cohesionless vertical face with no layers).
-    """
-    from scipy.optimize import brentq
+    free collapse above), so F is found by a bracketing search (:func:`_find_root`): steps
+    from the slope of log lambda against log F while the root is not bracketed, then
+    interpolation kept inside the bracket, bisection where lambda is 0 or infinite. Each LP
+    starts from the lines of the one before. F = 0: even at F = 1/64 the section collapses
+    (for example a cohesionless vertical face with no layers).
 
+    ``coarse_nodes``: first find F on a grid of that many nodes (cheap) and start the search
+    on the fine grid from it and its slope: two to four fine LPs instead of five or six
+    (bench_mechanism.py). ``start``: (F, slope) of such a coarse answer already at hand
+    (``MechanismResult.factor`` and ``.slope``). The fine grid alone decides the answer.
+    """
     t0 = time.perf_counter()
     problem = _problem(model)
     solver, nodes = _pick_solver(solver, nodes)
+    if start is None and coarse_nodes:
+        coarse = strength_factor(problem, nodes=coarse_nodes, solver=solver, rtol=COARSE_RTOL)
+        if coarse.factor == 0.0:
+            return replace(coarse, seconds=time.perf_counter() - t0)
+        start = (coarse.factor, coarse.slope)
+    guess, slope, first_step = 1.0, FIRST_SLOPE, STEP_RANGE[1]
+    if start is not None:
+        guess, slope, first_step = float(start[0]), float(start[1]), 1.0 + 4.0 * COARSE_RTOL
     run = _Runner(build_layout(problem, nodes), solver, GRAVITY)
-
-    def g(f: float) -> float:
-        return min(run(f), LAMBDA_CAP) - 1.0
-
-    lo, hi = _bracket(g)
-    if lo == 0.0:
-        return _result(run, "strength factor", 0.0, t0)
-    if np.isinf(hi):
+    root, at, slope = _find_root(run, guess, slope, rtol, first_step)
+    if not np.isfinite(root):
         raise EngineError(
             f"mechanism check: no mechanism forms even with strengths divided by {F_MAX:g}"
         )
-    root = brentq(g, lo, hi, xtol=rtol * lo, rtol=rtol, maxiter=60)
-    run(root)
-    return _result(run, "strength factor", root, t0)
+    run(at)  # the mechanism reported is the one found at the last F evaluated near the root
+    return replace(_result(run, "strength factor", root, t0), slope=slope)
 
 
-def _bracket(g) -> tuple[float, float]:
-    """(lo, hi) with g(lo) >= 0 > g(hi); (0, x) if none is stable, (x, inf) if all are.
+FIRST_SLOPE = 3.0
+"""Guess of -d log lambda / d log F before two points give it: lambda ~ 1/F for purely
+cohesive strength, faster for frictional (dilation falls with tan phi'/F); 3 landed near the
+root on the bench walls (measured)."""
+COARSE_RTOL = 1e-2
+COLLAPSE_STEP = 1.1
+"""Step down in F from a collapse (lambda = 0: no slope to go by) before the root is
+bracketed; the start is usually within 10 % of the root (coarse grid or slip circles)."""
+STEP_RTOL = 1e-2
+"""Tolerance on F where lambda steps from above 1 to 0 (c' = 0: a frictional mechanism
+starts to do work for nothing): bisection only narrows a step, so it stops at 1 % and
+reports the stable end (the lower F)."""
+SLOPE_RANGE = (0.5, 12.0)
+STEP_RANGE = (1.02, 1.6)
+"""Smallest and largest step of F (as a ratio) while the root is not yet bracketed."""
 
-    First step lambda(1)^(1/3) from F = 1 (lambda ~ 1/F for purely cohesive strength;
-    frictional strength falls faster with F, so the cube root usually lands just past the
-    root; measured on the bench walls), clipped to x1.05-x1.6, then steps of x1.25.
+
+def _find_root(
+    run, f0: float, slope: float, rtol: float, first_step: float = 1.6
+) -> tuple[float, float, float]:
+    """(F, F evaluated last near it, slope) with lambda(F) = 1; (0, ., .) when even F_MIN
+    collapses, (inf, ., .) when nothing collapses up to F_MAX.
+
+    lambda ~ F^-k locally, so log lambda is nearly linear in log F: a point with
+    |log lambda| <= k rtol is within rtol of the root, which is then F lambda^(1/k).
+    ``first_step`` caps the first move from ``f0`` (small when ``f0`` comes from a coarse
+    grid: the fine root is within a few per cent of it, and a step in lambda is then
+    bracketed closely).
     """
-    lam = g(1.0) + 1.0
-    if lam >= 1.0:
-        lo, f = 1.0, float(np.clip(lam ** (1.0 / 3.0), 1.05, 1.6))
-        while g(f) >= 0.0:
-            lo, f = f, f * 1.25
-            if f > F_MAX:
-                return lo, np.inf
-        return lo, f
-    hi, f = 1.0, float(np.clip(max(lam, 0.0) ** (1.0 / 3.0), 1.0 / 1.6, 1.0 / 1.05))
-    while g(f) < 0.0:
-        hi, f = f, f / 1.25
-        if f < F_MIN:
-            return 0.0, hi
-    return f, hi
+    lo = hi = None  # (F, lambda) with lambda >= 1 (stable) / < 1 (collapses)
+    last = None
+    f = float(np.clip(f0, F_MIN, F_MAX))
+    for step_no in range(ROOT_STEPS):
+        cap = first_step if step_no == 0 else STEP_RANGE[1]
+        lam = min(run(f), LAMBDA_CAP)
+        if lam >= 1.0:
+            lo = (f, lam) if lo is None or f > lo[0] else lo
+        else:
+            hi = (f, lam) if hi is None or f < hi[0] else hi
+        if last is not None and lam > 0.0 and last[1] > 0.0 and abs(f - last[0]) > 0.0:
+            k = -np.log(lam / last[1]) / np.log(f / last[0])
+            if np.isfinite(k):
+                slope = float(np.clip(k, *SLOPE_RANGE))
+        last = (f, lam)
+        if 0.0 < lam < LAMBDA_CAP and abs(np.log(lam)) <= slope * rtol:
+            return f * lam ** (1.0 / slope), f, slope
+        if lo is not None and hi is not None:
+            ratio = hi[0] / lo[0]
+            if ratio - 1.0 <= (max(rtol, STEP_RTOL) if hi[1] == 0.0 else rtol):
+                return lo[0], lo[0], slope
+            if hi[1] > 0.0 and lo[1] < LAMBDA_CAP:
+                k = np.log(lo[1] / hi[1]) / np.log(ratio)
+                t = np.log(lo[1]) / k / np.log(ratio) if k > 0 else 0.5
+                t = float(np.clip(t, 0.1, 0.9))
+            else:
+                t = 0.5
+            f = lo[0] * ratio**t
+        elif lo is not None:
+            if f >= F_MAX:
+                return np.inf, f, slope
+            step = lam ** (1.0 / slope) * (1.0 + 2.0 * rtol) if lam < LAMBDA_CAP else STEP_RANGE[1]
+            f = min(f * float(np.clip(step, STEP_RANGE[0], cap)), F_MAX)
+        else:
+            if f <= F_MIN:
+                return 0.0, f, slope
+            step = (1.0 / lam) ** (1.0 / slope) * (1.0 + 2.0 * rtol) if lam > 0 else COLLAPSE_STEP
+            f = max(f / float(np.clip(step, STEP_RANGE[0], cap)), F_MIN)
+    raise EngineError(
+        f"mechanism check: the strength factor did not settle in {ROOT_STEPS} linear programmes"
+    )
+
+
+ROOT_STEPS = 40

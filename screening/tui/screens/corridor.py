@@ -19,6 +19,7 @@ from screening.tui.fields import display
 from screening.tui.keys import ACTIONS
 from screening.tui.screens.detail import DetailScreen
 from screening.tui.screens.files import FilesMixin
+from screening.tui.screens.mechanism_worker import MechanismMixin
 from screening.tui.screens.operations import OperationsMixin
 from screening.tui.screens.screening_worker import ScreeningMixin
 from screening.tui.screens.tools import ToolsMixin
@@ -41,7 +42,9 @@ def _bindings() -> list[Binding]:
     ]
 
 
-class CorridorScreen(ToolsMixin, OperationsMixin, FilesMixin, ScreeningMixin, Screen[None]):
+class CorridorScreen(
+    ToolsMixin, OperationsMixin, FilesMixin, MechanismMixin, ScreeningMixin, Screen[None]
+):
     """Where the user spends the day."""
 
     BINDINGS = _bindings()
@@ -266,3 +269,5 @@ class CorridorScreen(ToolsMixin, OperationsMixin, FilesMixin, ScreeningMixin, Sc
         elif self.anchor is not None:
             self._set_anchor(None)
             self.say("range cleared")
+        elif self.mechanism_running:
+            self.cancel_mechanism()

@@ -24,6 +24,7 @@ from screening.tui.cells import SI, traffic_text, verdict_text
 from screening.tui.keys import binding_for
 from screening.tui.widgets.check_table import checks_table, layers_table
 from screening.tui.widgets.cross_section import CrossSection
+from screening.tui.widgets.mechanism_view import MechanismView
 from screening.tui.widgets.segment_tools import SegmentTools
 from screening.tui.widgets.title_bar import CautionLine
 
@@ -103,6 +104,7 @@ class DetailScreen(Screen[None]):
                     yield Static(layers_table(res, d), id="detail-layers")
             with Vertical(id="detail-right"):
                 yield CrossSection(seg, res, id="detail-sketch")
+                yield MechanismView(self.session, self.row, id="detail-mechanism")
                 yield SegmentTools(id="detail-tools")
         yield CautionLine(id="caution")
         yield Footer()
@@ -119,6 +121,7 @@ class DetailScreen(Screen[None]):
         self.query_one("#detail-reasons", Static).update(reasons(res))
         self.query_one("#detail-layers", Static).update(Group(layers_table(res, d)))
         self.query_one(CrossSection).show(seg, res)
+        self.query_one(MechanismView).show(self.row)
         self.query_one(SegmentTools).show(self.session, self.row)
 
     def on_mount(self) -> None:
