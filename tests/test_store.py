@@ -284,7 +284,7 @@ def test_coerce_field_reads_what_a_person_types(presets) -> None:
         ("backslope_deg", "50", "backslope_deg: must be between 0 and 45 degrees (got 50)"),
         ("traffic", "heavy", "traffic: must be none, parallel, approach or a number in kPa"),
         ("fill", "granular", 'did you mean "granular-wellgraded"?'),
-        ("fill", "{ friction_deg = 60 }", "fill.friction_deg: must be between 0 and 50"),
+        ("fill", "{ friction_deg = 60 }", "fill.friction_deg: must be between 15 and 50"),
         ("fill", "{ friction_deg = ", "fill: not a valid table of values"),
         ("water_in_fill", "maybe", 'water_in_fill: expected true or false, got "maybe"'),
         ("id", "  ", "id: must not be empty"),

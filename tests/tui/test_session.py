@@ -25,6 +25,7 @@ def test_lettered_id_skips_taken_letters():
 def test_recent_list_is_deduplicated_most_recent_first_and_short(tmp_path: Path):
     state = InterfaceState()
     for k in range(MAX_RECENT + 3):
+        (tmp_path / f"c{k}.toml").write_text("x")  # recent files that are gone are dropped
         state.remember(tmp_path / f"c{k}.toml")
     state.remember(tmp_path / "c5.toml")
     assert len(state.recent) == MAX_RECENT
