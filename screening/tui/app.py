@@ -14,13 +14,30 @@ from textual.app import App, SystemCommand
 from textual.screen import Screen
 
 from screening import store
+from screening.model import Corridor
 from screening.model import presets as presets_module
 from screening.model.errors import WallscreenError
+from screening.model.units import Display
 from screening.tui.config import load_state, save_state
 from screening.tui.keys import ACTIONS, all_keys
 from screening.tui.screens.about import AboutScreen
 from screening.tui.screens.corridor import CorridorScreen
 from screening.tui.session import Session
+
+
+def empty_corridor(name: str = "New corridor") -> Corridor:
+    """A corridor with no segments, the starting defaults of ``wallscreen new`` and the
+    shipped factor set and rules: what the interface starts from scratch with."""
+    from screening.profile.build import NEW_FACTOR_SET, starting_defaults
+
+    presets = presets_module.load_presets()
+    return Corridor(
+        name=name,
+        factor_set=presets.factor_sets[NEW_FACTOR_SET],
+        defaults=starting_defaults(),
+        segments=(),
+        rules=presets.rules,
+    )
 
 
 def open_session(path: Path | None) -> Session:
@@ -47,9 +64,10 @@ class WallscreenApp(App[int]):
 
     def on_mount(self) -> None:
         self.theme = "textual-dark"
+        state = load_state()
+        self.session.display = Display(state.units)  # the units chosen last time
         self.corridor_screen = CorridorScreen(self.session)
         self.push_screen(self.corridor_screen)
-        state = load_state()
         if self.session.path is not None:
             state.remember(self.session.path)
             save_state(state)

@@ -53,7 +53,7 @@ cp "$("$PY" -c 'from screening.model.presets import demo_corridor_path; print(de
 ID="$("$PY" -c '
 import sys
 from screening import store
-from screening.tui.session import chainage_order
+from screening.tui.placing import chainage_order
 print(chainage_order(store.load(sys.argv[1]).segments)[3].id)' "$WORK/corridor.toml")"
 
 $T kill-server >/dev/null 2>&1

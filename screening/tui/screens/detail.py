@@ -21,6 +21,7 @@ from screening.engine.result import SegmentResult
 from screening.model import Segment
 from screening.model.units import Display
 from screening.tui.cells import SI, traffic_text, verdict_text
+from screening.tui.config import remember_units
 from screening.tui.keys import binding_for
 from screening.tui.widgets.check_table import checks_table, layers_table
 from screening.tui.widgets.cross_section import CrossSection
@@ -132,6 +133,7 @@ class DetailScreen(Screen[None]):
         if self.session is not None:
             system = "us" if self.session.display.system == "si" else "si"
             self.session.display = Display(system)
+            remember_units(system)
             self._show()
 
     def action_step(self, delta: int) -> None:

@@ -138,6 +138,19 @@ class FilesMixin:
 
         self.guard("open another file", ask)
 
+    def action_new_corridor(self) -> None:
+        """An empty corridor with the shipped starting defaults (saved with save as)."""
+
+        def fresh() -> None:
+            from screening.tui.app import empty_corridor
+
+            if self.screening:
+                self.cancel_screen()
+            self.reset(Session(empty_corridor(), None, self.session.presets))
+            self.say("new corridor: a adds the first segment; ^s asks where to save it")
+
+        self.guard("start a new corridor", fresh)
+
     def action_recent_files(self) -> None:
         recent = load_state().recent
         if not recent:

@@ -45,6 +45,8 @@ class ScreeningMixin:
 
     def start_screen(self) -> None:
         corridor = self.session.corridor
+        if not corridor.segments:  # nothing to screen: an empty corridor waits for its first
+            return
         self.screening = True
         self.query_one(ProgressStrip).begin(len(corridor.segments))
         self._screen_in_background(corridor)
@@ -136,6 +138,8 @@ class ScreeningMixin:
     @property
     def results_pending(self) -> bool:
         """Some row has no up-to-date result yet (a save waits for them)."""
+        if not self.session.corridor.segments:
+            return self.screening
         return (
             self.screening
             or self.rows_running

@@ -10,7 +10,6 @@ from __future__ import annotations
 import time
 from pathlib import Path
 
-from rich.text import Text
 from textual import work
 from textual.worker import get_current_worker
 
@@ -19,7 +18,7 @@ from screening.corridor.quantities import corridor_quantities
 from screening.model.errors import WallscreenError
 from screening.model.units import Display
 from screening.report import write_report
-from screening.tui.cells import COLUMNS, column_heading
+from screening.tui.config import remember_units
 from screening.tui.corridor_tools import (
     check_corridor_path,
     compare_with,
@@ -51,6 +50,7 @@ class ToolsMixin:
     def action_toggle_units(self) -> None:
         s = self.session
         s.display = Display("us" if s.display.system == "si" else "si")
+        remember_units(s.display.system)
         self.show_units()
         self.say(
             "showing US customary units (ft, psf, pcf, kip/ft); the file stays in SI"
@@ -59,13 +59,15 @@ class ToolsMixin:
         )
 
     def show_units(self) -> None:
-        """Redraw the table headings, every row and the summary in the session's units."""
+        """Redraw the table headings, every row, the summary and the editor in the
+        session's units."""
         table = self.table
-        for key, heading, _ in COLUMNS:
-            table.columns[key].label = Text(column_heading(key, heading, self.session.display))
-        table.refresh()
+        table.relabel(self.session)
         table.update_all_gradually(self.session)  # visible rows first: no freeze at 5,000
         self.redraw_around()
+        if self.editor.display and self.session.corridor.segments:
+            self.editor.load(self.session.corridor.segments[self.cursor], self.session.display)
+            self.editor.show_outcome(self.session, self.cursor)
 
     # ------------------------------------------------------------------ quantities
 

@@ -13,8 +13,12 @@ from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
 from textual.widgets import Input, Label, Static
 
+from screening.engine.result import cdr_text
 from screening.model import Segment
-from screening.tui.fields import FIELDS, display
+from screening.model.units import Display
+from screening.tui.cells import PENDING, verdict_text
+from screening.tui.fields import FIELDS, SI, display
+from screening.tui.view import margin_of
 
 
 def input_id(name: str) -> str:
@@ -36,6 +40,7 @@ class SegmentEditor(VerticalScroll):
 
     def compose(self) -> ComposeResult:
         yield Static("", id="editor-title")
+        yield Static("", id="editor-outcome")
 
     async def build(self) -> None:
         """Mount the fields on first use: a quicker first frame for the corridor screen."""
@@ -52,7 +57,7 @@ class SegmentEditor(VerticalScroll):
                         classes="field-input",
                         select_on_focus=False,
                     ),
-                    Label(spec.unit, classes="field-unit"),
+                    Label(spec.unit, id=input_id(spec.name) + "-unit", classes="field-unit"),
                     classes="field-row",
                 )
             )
@@ -67,27 +72,61 @@ class SegmentEditor(VerticalScroll):
         )
         await self.mount_all(widgets)
 
-    def load(self, segment: Segment) -> None:
-        """Fill the form from ``segment`` without treating it as an edit."""
+    def load(self, segment: Segment, units: Display = SI) -> None:
+        """Fill the form from ``segment`` (in ``units``) without treating it as an edit."""
         self.segment_id = segment.id
-        self.query_one("#editor-title", Static).update(Text(f"Segment {segment.id}", style="bold"))
+        self.query_one("#editor-title", Static).update(
+            Text(f"Segment {segment.id}  ·  {segment.wall}", style="bold")
+        )
         for spec in FIELDS:
             box = self.query_one("#" + input_id(spec.name), Input)
             with box.prevent(Input.Changed):
-                box.value = display(segment, spec.name)
+                box.value = display(segment, spec.name, units)
+            unit = units.label(spec.unit) if spec.unit else ""
+            self.query_one("#" + input_id(spec.name) + "-unit", Label).update(unit)
             self.show_problem(spec.name, None)
 
-    def refresh_values(self, segment: Segment, skip: str | None = None) -> None:
+    def refresh_values(
+        self, segment: Segment, skip: str | None = None, units: Display = SI
+    ) -> None:
         """Show the segment's values again, except in the field being typed in."""
         self.segment_id = segment.id
         for spec in FIELDS:
             if spec.name == skip:
                 continue
             box = self.query_one("#" + input_id(spec.name), Input)
-            text = display(segment, spec.name)
+            text = display(segment, spec.name, units)
             if box.value != text:
                 with box.prevent(Input.Changed):
                     box.value = text
+
+    def show_outcome(self, session, i: int) -> None:
+        """Verdict, L, Hd and least margin of segment ``i`` as screened now (or pending),
+        so a narrow terminal that hides the table still shows what an edit does."""
+        out = Text()
+        if session.pending(i):
+            quick = session.provisional(i)
+            if quick is None:
+                out.append(f"{PENDING} screening", style="dim")
+                self.query_one("#editor-outcome", Static).update(out)
+                return
+            result, k = quick
+            out.append(f"{PENDING} checking  ", style="dim italic")
+        else:
+            result, k = session.result, i
+            out.append_text(verdict_text(result.verdict[k]))
+            out.append("  ")
+        d = session.display
+        check, cdr = margin_of(result, k)
+        out.append(
+            f"L {d.format(float(result.length_m[k]), 'm', 1)}  Hd "
+            f"{d.format(float(result.design_height_m[k]), 'm', 1)}  "
+        )
+        if cdr is not None:
+            out.append(f"CDR {cdr_text(cdr)} {check}", style="bold red" if cdr < 1 else "")
+        elif check:
+            out.append(check, style="bold red")
+        self.query_one("#editor-outcome", Static).update(out)
 
     def show_problem(self, name: str, message: str | None) -> None:
         """Under field ``name``: why the value was refused (None: clear it)."""
