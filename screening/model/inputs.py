@@ -8,7 +8,7 @@ field names below, so the store can map files to objects field by field.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Literal
+from typing import Any, Literal
 
 SCHEMA = "wallscreen/1"
 
@@ -340,3 +340,6 @@ class Corridor:
     design_life_years: float | None = None
     """None: 75 years for walls, 100 for abutments (rules preset)."""
     note: str = ""
+    rates: dict[str, Any] | None = field(default=None, compare=False, hash=False)
+    """The corridor file's own ``[rates]`` table (unit rates over the shipped ones), as
+    written; None: the shipped rates. Read by ``screening.corridor.quantities``."""

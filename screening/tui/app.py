@@ -14,7 +14,6 @@ from textual.app import App, SystemCommand
 from textual.screen import Screen
 
 from screening import store
-from screening.model import Corridor
 from screening.model import presets as presets_module
 from screening.model.errors import WallscreenError
 from screening.model.units import Display
@@ -23,21 +22,6 @@ from screening.tui.keys import ACTIONS, all_keys
 from screening.tui.screens.about import AboutScreen
 from screening.tui.screens.corridor import CorridorScreen
 from screening.tui.session import Session
-
-
-def empty_corridor(name: str = "New corridor") -> Corridor:
-    """A corridor with no segments, the starting defaults of ``wallscreen new`` and the
-    shipped factor set and rules: what the interface starts from scratch with."""
-    from screening.profile.build import NEW_FACTOR_SET, starting_defaults
-
-    presets = presets_module.load_presets()
-    return Corridor(
-        name=name,
-        factor_set=presets.factor_sets[NEW_FACTOR_SET],
-        defaults=starting_defaults(),
-        segments=(),
-        rules=presets.rules,
-    )
 
 
 def open_session(path: Path | None) -> Session:
@@ -110,10 +94,15 @@ class WallscreenApp(App[int]):
             self.exit(0)
 
 
-def run_app(path: Path | None) -> int:
-    """Open the interface on ``path`` (None: the demo); the exit code for the shell."""
+def run_app(path: Path | None, rates: Path | None = None) -> int:
+    """Open the interface on ``path`` (None: the demo), with the unit rates of ``rates``
+    (None: the corridor's own and the shipped ones); the exit code for the shell."""
     try:
         session = open_session(path)
+        if rates is not None:
+            from screening.corridor.quantities import load_rates
+
+            session.rates_override, session.rates_path = load_rates(rates), rates
     except WallscreenError as err:
         print(f"wallscreen: {err}", file=sys.stderr)
         return 2

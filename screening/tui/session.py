@@ -80,6 +80,9 @@ class Session:
         self.presets = presets
         self.display = Display("si")
         """Units things are shown in (``us``: ft, psf, ...); the file and engine stay SI."""
+        self.rates_override = None
+        """Rates given with ``--rates FILE`` (they replace the corridor's own and shipped)."""
+        self.rates_path: Path | None = None
         self._undo: list[_State] = []
         self._redo: list[_State] = []
         self._saved: Corridor | None = corridor

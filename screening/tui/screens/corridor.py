@@ -320,7 +320,7 @@ class CorridorScreen(
     def action_presets(self) -> None:
         from screening.tui.screens.presets import PresetsScreen
 
-        self.app.push_screen(PresetsScreen(self.session.presets))
+        self.app.push_screen(PresetsScreen(self.session.presets, self.session.display))
 
     # ------------------------------------------------------------------ editor
 

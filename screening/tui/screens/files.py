@@ -125,7 +125,10 @@ class FilesMixin:
         if self.screening:
             self.cancel_screen()
         self.remember(path)
-        self.reset(Session(corridor, path, self.session.presets))
+        fresh = Session(corridor, path, self.session.presets)
+        fresh.rates_override = self.session.rates_override
+        fresh.rates_path = self.session.rates_path
+        self.reset(fresh)
         self.say(f"opened {path}")
         return True
 
@@ -142,7 +145,7 @@ class FilesMixin:
         """An empty corridor with the shipped starting defaults (saved with save as)."""
 
         def fresh() -> None:
-            from screening.tui.app import empty_corridor
+            from screening.profile.build import empty_corridor
 
             if self.screening:
                 self.cancel_screen()

@@ -14,7 +14,7 @@ from textual import work
 from textual.worker import get_current_worker
 
 from screening.corridor.diff import CorridorDiff
-from screening.corridor.quantities import corridor_quantities
+from screening.corridor.quantities import corridor_quantities, rates_words
 from screening.model.errors import WallscreenError
 from screening.model.units import Display
 from screening.report import write_report
@@ -23,7 +23,7 @@ from screening.tui.corridor_tools import (
     check_corridor_path,
     compare_with,
     default_report_path,
-    shipped_rates,
+    rates_for,
 )
 from screening.tui.screens.prompt import PromptScreen
 
@@ -78,11 +78,12 @@ class ToolsMixin:
 
         s = self.session
         try:
-            q = corridor_quantities(s.corridor, s.result, shipped_rates())
+            q = corridor_quantities(s.corridor, s.result, rates_for(s.corridor, s.rates_override))
         except WallscreenError as err:
             self.app.notify(str(err), title="No quantities", severity="error", timeout=10)
             return
-        self.app.push_screen(QuantitiesScreen(s.corridor.name, q, s.display, self.cursor))
+        where = rates_words(s.corridor, s.rates_path)
+        self.app.push_screen(QuantitiesScreen(s.corridor.name, q, s.display, self.cursor, where))
 
     # ------------------------------------------------------------------ sensitivity
 
@@ -127,7 +128,17 @@ class ToolsMixin:
     def _export(self, corridor, result, path: Path, units: str, sensitivity: bool) -> None:
         started = time.perf_counter()
         try:
-            out = write_report(corridor, result, path, units=units, sensitivity=sensitivity)
+            s = self.session
+            out = write_report(
+                corridor,
+                result,
+                path,
+                units=units,
+                sensitivity=sensitivity,
+                rates=rates_for(corridor, s.rates_override),
+                source=s.path if not s.dirty else None,
+                rates_source=rates_words(corridor, s.rates_path),
+            )
         except Exception as err:  # shown, never a traceback; the user's files are untouched
             self.app.call_from_thread(self._export_failed, _problem(err))
             return
