@@ -93,7 +93,7 @@ class Grade:
     """
 
     name: str
-    """Short name shown in tables, e.g. ``"GG-55"`` or ``"4 strips/m"``."""
+    """Short name shown in tables, e.g. ``"PET 55 kN/m"`` or ``"4 strips/m"``."""
     coverage_ratio: float = 1.0
     """Rc = b/Sh: fraction of the wall width covered (1.0 = full-width sheet)."""
     ultimate_strength_kn_m: float | None = None

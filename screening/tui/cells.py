@@ -256,7 +256,7 @@ def summary_text(
     area = sum(s.face_area_m2 for s in segs)
     out = Text()
     walls = len({s.wall for s in segs})
-    out.append(f"{len(segs)} segments", style="bold")
+    out.append(f"{len(segs)} segment{'s' if len(segs) != 1 else ''}", style="bold")
     out.append(f" in {walls} wall{'s' if walls != 1 else ''}")
     if not segs:
         out.append("   nothing to screen yet", style="dim")

@@ -75,7 +75,7 @@ def segment_quantities(
 
 
 def reinforcement_words(q: SegmentQuantities, display: Display) -> str:
-    """``400 strips, 1960 m, 3077 kg`` or ``GX-35 120 m², GX-55 40 m²``."""
+    """``400 strips, 1960 m, 3077 kg`` or ``PET 35 kN/m 120 m², PET 55 kN/m 40 m²``."""
     if q.geosynthetic_m2:
         return ", ".join(
             f"{name} {display.format(area, 'm2', 0)}" for name, area in q.geosynthetic_m2.items()

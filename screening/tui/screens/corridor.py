@@ -331,7 +331,7 @@ class CorridorScreen(
             return
         if self.on_wall_line:
             self.table.move_to(s, self.cursor)  # the wall's first segment
-        await self.editor.build()
+        await self.editor.build(s.presets)
         self.editor.display = True
         self.set_class(True, "editing")
         self.editor.load(s.corridor.segments[self.cursor], s.display)

@@ -106,7 +106,14 @@ class FilesMixin:
                 self._write(Path(raw).expanduser(), then)
 
         self.app.push_screen(
-            PromptScreen("Save as", "Path of the corridor file to write:", current, _writable), done
+            PromptScreen(
+                "Save as",
+                "Path of the corridor file to write:",
+                current,
+                _writable,
+                paths=(".toml",),
+            ),
+            done,
         )
 
     # ------------------------------------------------------------------ open
@@ -135,7 +142,9 @@ class FilesMixin:
     def action_open_file(self) -> None:
         def ask() -> None:
             self.app.push_screen(
-                PromptScreen("Open", "Path of a corridor file (.toml):", "", _existing),
+                PromptScreen(
+                    "Open", "Path of a corridor file (.toml):", "", _existing, paths=(".toml",)
+                ),
                 lambda raw: raw is not None and self.open_path(Path(raw).expanduser()),
             )
 

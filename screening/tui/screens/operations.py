@@ -5,6 +5,7 @@ and lets the corridor screen redraw."""
 from __future__ import annotations
 
 from screening.model.errors import WallscreenError
+from screening.tui.completion import field_choices
 from screening.tui.fields import BY_NAME, FIELDS, display
 from screening.tui.placing import split_chainage
 from screening.tui.screens.choose import ChooseScreen
@@ -116,12 +117,22 @@ class OperationsMixin:
 
             units = self.session.display
             unit = units.label(spec.unit) if spec.unit else ""
+            choices = field_choices(name, self.session.presets)
+            if choices and name != "traffic":  # a list of words: pick one
+                self.app.push_screen(
+                    ChooseScreen(
+                        f"Set {spec.label} on {what}", choices, current=display(first, name)
+                    ),
+                    done,
+                )
+                return
             self.app.push_screen(
                 PromptScreen(
                     f"Set {spec.label} on {what}",
                     f"{spec.label} {unit} — {spec.hint}:",
                     display(first, name, units),
                     lambda raw: self.session.parse(name, raw, rows[0]),
+                    words=[v for v, _ in choices] or None,
                 ),
                 done,
             )

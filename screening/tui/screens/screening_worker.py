@@ -82,6 +82,7 @@ class ScreeningMixin:
             return
         self.table.update_all_gradually(self.session)
         self.redraw_around()
+        self.refresh_editor()
         if self.last_screen_s is not None:
             self.say(f"screened {len(result):,} segments in {self.last_screen_s:.1f} s")
         self.screen_stale_rows()
@@ -125,6 +126,7 @@ class ScreeningMixin:
         if self.session.accept(corridor, rows, result):
             self.table.update_rows(rows, self.session)
             self.redraw_around()
+            self.refresh_editor()
             if not self.session.stale and self._edit_started is not None:
                 self.last_edit_ms = (time.perf_counter() - self._edit_started) * 1000.0
                 self._edit_started = None

@@ -184,6 +184,7 @@ class ToolsMixin:
                 "with what is open now (unsaved edits included):",
                 current,
                 check_corridor_path,
+                paths=(".toml",),
             ),
             chosen,
         )
