@@ -105,7 +105,8 @@ def input_cells(
     m = display.value
     mark = PROBLEM_MARK if problem else ""
     lead = f"{mark or ' '} " if indent else mark
-    ident = Text(lead, style="bold yellow")
+    ident = Text()
+    ident.append(lead, style="bold yellow")
     ident.append(seg.id, style="bold")
     return {
         "id": ident,

@@ -39,12 +39,14 @@ async def test_bulk_edit_of_a_marked_range(corridor_file: Path):
         assert screen.anchor is None  # the range is cleared once applied
 
 
-async def test_bulk_edit_refuses_an_unknown_preset(corridor_file: Path):
+async def test_bulk_edit_of_a_preset_offers_only_the_presets(corridor_file: Path):
+    """A preset field is picked from the list of presets, so an unknown id cannot be set."""
+    from screening.model.presets import load_presets
+
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
         screen = app.corridor_screen
-        corridor = screen.session.corridor
         await goto(pilot, app, 0)
         await pilot.press("space", "down", "b")
         await pilot.pause()
@@ -52,13 +54,17 @@ async def test_bulk_edit_refuses_an_unknown_preset(corridor_file: Path):
         chooser.query_one("#choices").highlighted = [v for v, _ in chooser.options].index("fill")
         await pilot.press("enter")
         await pilot.pause()
-        await pilot.press("home", "ctrl+k", *"gravelly", "enter")
+        values = app.screen
+        assert isinstance(values, ChooseScreen)
+        assert [v for v, _ in values.options] == list(load_presets().fills)
+        values.query_one("#choices").highlighted = [v for v, _ in values.options].index(
+            "crushed-rock"
+        )
+        await pilot.press("enter")
         await pilot.pause()
-        prompt = app.screen
-        assert isinstance(prompt, PromptScreen)  # Enter refused: still asking
-        assert "unknown fill preset" in str(prompt.query_one("#prompt-why").content)
-        await pilot.press("escape")
-        assert screen.session.corridor is corridor
+        segs = screen.session.corridor.segments
+        assert [s.fill.id for s in segs[:2]] == ["crushed-rock"] * 2
+        await rows_match_fresh_screen(pilot, app)
 
 
 async def test_split_at_a_chainage(corridor_file: Path):

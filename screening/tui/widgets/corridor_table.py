@@ -42,6 +42,8 @@ class CorridorTable(DataTable):
         self.view = View()
         self._generation = 0
         self._id_width = 0
+        self._made: dict[int, tuple[tuple, object, list[Text]]] = {}
+        """Segment -> (what its cells were made from, the screen, the cells)."""
         self.updating = False
         """A gradual redraw of every row is under way."""
 
@@ -104,18 +106,33 @@ class CorridorTable(DataTable):
             )
         i = line.index
         seg = session.corridor.segments[i]
+        pending, quick = session.pending(i), session.provisional(i)
+        key = (
+            id(seg),
+            id(session.result),
+            pending,
+            id(quick[0]) if quick else None,
+            session.display.system,
+            seg.id in problems,
+            self.view.grouped,
+            i in self.marked,
+        )
+        hit = self._made.get(i)
+        if hit is not None and hit[0] == key and hit[1] is seg:
+            return hit[2]  # a view change redraws lines whose inputs and screen are the same
         cells = row_cells(
             seg,
             session.result,
             i,
-            session.pending(i),
-            session.provisional(i),
+            pending,
+            quick,
             session.display,
             problem=seg.id in problems,
             indent=self.view.grouped,
         )
         if i in self.marked:
             cells[0] = Text(cells[0].plain, style=f"bold {MARK_STYLE}")
+        self._made[i] = (key, seg, cells)
         return cells
 
     def load(self, session: Session, view: View, segment: int | None = 0) -> None:
