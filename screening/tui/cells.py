@@ -46,7 +46,7 @@ COLUMNS: tuple[Column, ...] = (
     Column("verdict", "Verdict", 10),
     Column("cdr", "CDR", 5, help="least margin: smallest CDR of the checks that did not set L"),
     Column("margin", "Least margin", 12, help="the check with that CDR (the failing one)"),
-    Column("setby", "L set by", 14, help="what set L: a check or a rule"),
+    Column("setby", "L set by", 16, help="what set L: a check or a rule"),
     Column("chainage", "Chainage", 13, "m"),
     Column("exposed", "Exposed", 10, "m", "exposed height at each end"),
     Column("design", "Hd", 5, "m", "design height: exposed + embedment"),
@@ -180,6 +180,16 @@ def row_cells(
     return [cells[key] for key in KEYS]
 
 
+def short_name(name: str, width: int) -> str:
+    """A wall's name in ``width`` characters, cut in the middle so its end (``, left``)
+    stays: ``Hollin Road…, left``."""
+    if len(name) <= width:
+        return name
+    head, sep, tail = name.rpartition(", ")
+    tail = sep + tail if head and len(tail) < width // 2 else ""
+    return name[: max(width - len(tail) - 1, 1)].rstrip() + "…" + tail
+
+
 def _common(values: list[str]) -> str:
     return values[0] if len(set(values)) == 1 else "mixed"
 
@@ -194,13 +204,14 @@ def wall_cells(
     stale: set[int] | frozenset[int] = frozenset(),
     display: Display = SI,
     shown: int | None = None,
+    width: int = 40,
 ) -> list[Text]:
     """A wall's summary line: name, verdict counts, least margin, extent and tallest."""
     segs = [corridor.segments[i] for i in members]
     m, u = display.value, display.label("m")
-    name = Text(("▸ " if folded else "▾ ") + wall, style=WALL_STYLE)
+    name = Text(("▸ " if folded else "▾ ") + short_name(wall, width - 2), style=WALL_STYLE)
     length = sum(s.length_along_m for s in segs)
-    count = f"{len(segs)} seg" if shown is None or shown == len(segs) else f"{shown}/{len(segs)}"
+    count = f"{len(segs)}" if shown is None or shown == len(segs) else f"{shown}/{len(segs)}"
     cells: dict[str, Text] = {
         "id": name,
         "setby": Text(f"{count} · {m(length, 'm'):,.0f} {u}", style="bold"),

@@ -71,7 +71,7 @@ keys Down Down Down; pause 0.2
 keys e; wait_for "Segment $ID"; pause
 for _ in 1 2 3 4 5 6; do keys Tab; pause 0.2; done
 keys Home; pause 0.2; keys C-k; pause 0.2; text "7.5"
-wait_for "$ID: Height at to = 7.5 m"
+wait_for "$ID: Exposed at to = 7.5 m"
 wait_for "unsaved changes"; shot 3-edited
 keys Escape; pause
 

@@ -103,6 +103,7 @@ class CorridorTable(DataTable):
                 stale=session.stale,
                 display=session.display,
                 shown=None if folded or not self.view.filtered else shown,
+                width=self._id_width,
             )
         i = line.index
         seg = session.corridor.segments[i]
