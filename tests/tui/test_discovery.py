@@ -113,7 +113,7 @@ async def test_presets_browser_shows_values_and_sources(corridor_file: Path):
         await pilot.pause()
         text = plain(browser.query_one("#presets-view").content)
         assert presets.factor_sets[target].source.split()[0] in text
-        assert "resistance" in text
+        assert "Resistance" in text  # in words: "sliding φ 1", or FS under allowable stress
         fill_id, fill = next(iter(presets.fills.items()))
         listing.highlighted = listing.get_option_index(f"fills:{fill_id}")
         await pilot.pause()
