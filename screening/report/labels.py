@@ -138,3 +138,16 @@ def shown(name: str, value: object, display: Display = SI) -> str:
     if isinstance(value, tuple):
         return ", ".join(str(v) for v in value)
     return str(getattr(value, "id", None) or getattr(value, "name", None) or value)
+
+
+def margin_of(result, i: int) -> tuple[str, float | None]:
+    """(check, CDR) a reader should look at first, as ``wallscreen check`` prints it: the
+    failing check when one fails, else the least margin among the checks that did not set
+    the reinforcement; a rule outside screening gives (its name, None)."""
+    if result.verdict[i] == "refer" and result.governing[i] not in result.checks:
+        return result.governing[i], None
+    if result.min_cdr[i] < 1.0 - 1e-9:
+        return result.governing[i], float(result.min_cdr[i])
+    if not result.margin_check[i]:
+        return "", None
+    return result.margin_check[i], float(result.margin_cdr[i])

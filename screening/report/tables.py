@@ -14,7 +14,7 @@ from screening.engine.result import UNITS, cdr_text
 from screening.model import VERDICTS
 from screening.model.units import in_words
 from screening.report.data import ReportData
-from screening.report.labels import field_label
+from screening.report.labels import field_label, margin_of
 
 CHECK_ORDER = (
     "sliding",
@@ -133,8 +133,8 @@ def segments(data: ReportData) -> Table:
                 _num(data, float(r.length_m[i]), "m"),
                 f"{float(r.length_ratio[i]):.2f}",
                 _num(data, float(r.rule_length_m[i]), "m"),
-                r.governing[i],
-                cdr_text(r.min_cdr[i]),
+                r.length_set_by[i],
+                _margin(r, i),
                 r.verdict[i],
             ]
         )
@@ -143,16 +143,28 @@ def segments(data: ReportData) -> Table:
         "wall",
         f"chainage ({m})",
         f"exposed height start / end ({m})",
-        f"design H ({m})",
+        f"design height Hd ({m})",
         f"embedment ({m})",
         f"L ({m})",
-        "L/H",
+        "L/Hd",
         f"rule L ({m})",
-        "governing",
-        "min CDR",
+        "L set by",
+        "least margin",
         "verdict",
     ]
-    return Table("Segments", header, rows)
+    return Table(
+        "Segments",
+        header,
+        rows,
+        "L set by: the check whose shortest passing length is L, or the rule that sets it. "
+        "Least margin: the smallest CDR of the other checks (for a referred segment, the "
+        "failing check or the rule that refers it).",
+    )
+
+
+def _margin(r, i: int) -> str:
+    check, cdr = margin_of(r, i)
+    return "-" if not check else (check if cdr is None else f"{check} {cdr_text(cdr)}")
 
 
 def cdr_overview(data: ReportData) -> Table:

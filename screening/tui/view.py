@@ -16,6 +16,9 @@ from dataclasses import dataclass
 
 from screening.engine.result import CorridorResult
 from screening.model import Corridor
+from screening.report.labels import margin_of
+
+__all__ = ["VERDICT_FILTERS", "View", "ViewRow", "margin_of", "walls_in_order"]
 
 VERDICT_RANK = {"clear": 0, "marginal": 1, "refer": 2}
 
@@ -39,19 +42,6 @@ class ViewRow:
     @property
     def is_wall(self) -> bool:
         return self.index is None
-
-
-def margin_of(result: CorridorResult, i: int) -> tuple[str, float | None]:
-    """(check, CDR) a reader should look at first, as ``wallscreen check`` prints it: the
-    failing check when one fails, else the least margin among the checks that did not set
-    the reinforcement; a rule outside screening gives (its name, None)."""
-    if result.verdict[i] == "refer" and result.governing[i] not in result.checks:
-        return result.governing[i], None
-    if result.min_cdr[i] < 1.0 - 1e-9:
-        return result.governing[i], float(result.min_cdr[i])
-    if not result.margin_check[i]:
-        return "", None
-    return result.margin_check[i], float(result.margin_cdr[i])
 
 
 def _num(x: float | None) -> float:
