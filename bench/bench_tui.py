@@ -17,6 +17,9 @@ mix of verdicts is the demo's invented scenario, not a design case. Three measur
    timer on the UI thread records its gaps; the longest and the 95th percentile gap, and
    whether the cursor moves while the worker runs.
 
+4. view changes (fold, filter, sort, units) on the ``--small`` corridor at 120 x 40 and
+   80 x 24.
+
 Targets (issue 3): first frame <= 1.5 s; edit -> row <= 100 ms; the UI stays responsive.
 """
 
@@ -34,6 +37,8 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
+
+from screening.tui.cells import KEYS  # noqa: E402
 
 FIRST_FRAME = r"""
 import time
@@ -104,9 +109,9 @@ async def edits(n_edits: int) -> None:
             t0 = time.perf_counter()
             change = screen.session.edit_field(row, "height_end_m", value)
             screen.apply(change)  # what the editor's Input.Changed handler does
-            cells = screen.table.get_row_at(row)
-            assert cells[2].plain.endswith(f"{float(value):.1f}")  # the new input ...
-            assert cells[3].plain != "…"  # ... with the built-in checks' L
+            cells = screen.table.get_row_at(screen.table.position[row])
+            assert cells[KEYS.index("exposed")].plain.endswith(f"{float(value):.1f}")  # input
+            assert cells[KEYS.index("length")].plain != "…"  # ... with the built-in checks' L
             shown.append((time.perf_counter() - t0) * 1000)
             while screen.busy:
                 await asyncio.sleep(0.002)
@@ -129,6 +134,42 @@ async def edits(n_edits: int) -> None:
     t0 = time.perf_counter()
     engine.screen(one)
     print(f"   of which the engine on one segment: {(time.perf_counter() - t0) * 1000:.0f} ms")
+
+
+async def views(n: int, size: tuple[int, int]) -> None:
+    """Group, fold, filter and sort on an ``n``-segment corridor: from the key to the table
+    rebuilt (headless, the rows drawn next frame)."""
+    from screening.model.presets import load_presets
+    from screening.tui.app import WallscreenApp
+    from screening.tui.session import Session
+    from screening.tui.view import View
+
+    app = WallscreenApp(Session(replicated(n), None, load_presets()), show_cautions=False)
+    async with app.run_test(size=size) as pilot:
+        screen = app.corridor_screen
+        while screen.busy:
+            await asyncio.sleep(0.02)
+        walls = frozenset(s.wall for s in screen.session.corridor.segments)
+        out = []
+        for words, view in (
+            ("fold every wall", View(collapsed=walls)),
+            ("unfold", View()),
+            ("refer only", View(verdicts=frozenset({"refer"}))),
+            ("text filter", View(text="WL")),
+            ("sort by L, descending", View(sort="length", descending=True)),
+            ("flat list, sorted by CDR", View(grouped=False, sort="cdr")),
+            ("back to chainage order", View()),
+        ):
+            t0 = time.perf_counter()
+            screen.set_view(view)
+            await pilot.pause()
+            out.append(f"{words} {(time.perf_counter() - t0) * 1000:.0f} ms")
+        t0 = time.perf_counter()
+        screen.action_toggle_units()
+        while screen.table.updating:
+            await asyncio.sleep(0.002)
+        out.append(f"units SI -> US, every row {(time.perf_counter() - t0) * 1000:.0f} ms")
+    print(f"4. view changes, {n} segments at {size[0]}x{size[1]}: " + "; ".join(out))
 
 
 async def large(n: int) -> None:
@@ -179,6 +220,8 @@ def main() -> None:
     args = parser.parse_args()
     first_frame(args.small)
     asyncio.run(edits(args.edits))
+    for size in ((120, 40), (80, 24)):
+        asyncio.run(views(args.small, size))
     if not args.skip_large:
         asyncio.run(large(args.large))
 

@@ -231,7 +231,7 @@ def test_bad_preset_syntax_has_line_and_column(tmp_path: Path) -> None:
 def test_bad_grade_in_preset(tmp_path: Path) -> None:
     root = _copy(tmp_path)
     path = root / "reinforcement.toml"
-    path.write_text(path.read_text().replace('name = "PG-80"', 'nmae = "PG-80"'))
+    path.write_text(path.read_text().replace('name = "PET 80 kN/m"', 'nmae = "PET 80 kN/m"'))
     with pytest.raises(InputError) as info:
         load_presets(root)
     assert 'grade[3].nmae: unknown key "nmae"; did you mean "name"?' in str(info.value)

@@ -32,6 +32,8 @@ FACTORS = LRFD
 
 
 def _corridor(name: str, **kw):
+    """The raw split (no rounding, no least length), unless a test asks for them."""
+    kw = {"round_m": 0.0, "min_length_m": 0.0, **kw}
     return corridor_from_profile(
         DATA / name, name="Test", defaults=_defaults(), factor_set=FACTORS, **kw
     )

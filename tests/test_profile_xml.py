@@ -76,6 +76,7 @@ def test_corridor_from_landxml_segments_by_step():
         factor_set=ASD,
         max_step_m=1.0,
         max_length_m=100.0,
+        round_m=0.0,  # the cuts as computed
     )
     ids = [s.id for s in c.segments]
     assert ids[0] == "EA-01"

@@ -160,9 +160,9 @@ def test_bad_rates_files_give_located_messages(tmp_path):
     with pytest.raises(InputError, match=r"rates.toml:2:\d+: \[rates\] face_m2: must be"):
         load_rates(p)
     p.write_text(
-        '[rates]\nface_m2 = 1\nlevelling_pad_m = 1\nselect_fill_m3 = 1\nsteel_kg = 1\ngeosynthetic_m2 = 1\n[rates.grade]\n"PG-55" = 9.5\n'
+        '[rates]\nface_m2 = 1\nlevelling_pad_m = 1\nselect_fill_m3 = 1\nsteel_kg = 1\ngeosynthetic_m2 = 1\n[rates.grade]\n"PET 55 kN/m" = 9.5\n'
     )
-    assert load_rates(p).grade_m2 == {"PG-55": 9.5}
+    assert load_rates(p).grade_m2 == {"PET 55 kN/m": 9.5}
 
 
 def test_a_screen_of_another_corridor_is_refused():

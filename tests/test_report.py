@@ -91,7 +91,7 @@ def test_html_names_every_segment_and_carries_the_cautions(html_text, screened):
     _, result = screened
     for sid in result.ids:
         assert f">{sid}<" in html_text
-    assert html_text.count(CAUTION) == 2  # top and bottom
+    assert html_text.count(CAUTION) == 3  # top, in the hand-over block, and bottom
     assert "Report test &lt;&amp;&gt; corridor" in html_text  # names are escaped
 
 
@@ -119,7 +119,7 @@ def test_html_embeds_a_long_section_per_wall_and_a_cross_section_per_flagged_seg
 def test_html_shows_assumptions_quantities_and_sensitivity(html_text, screened):
     _, result = screened
     assert "aashto-lrfd" in html_text and f"engine {result.engine_version}" in html_text
-    assert "Screening rules" in html_text and "rule_length_ratio" in html_text
+    assert "Screening rules" in html_text and "Rule-of-thumb L / Hd" in html_text  # in words
     assert "granular-wellgraded" in html_text and "2 strips/m" in html_text  # presets with values
     assert "Quantities and rough cost" in html_text and "PLACEHOLDER RATES" in html_text
     for i, v in enumerate(result.verdict):
@@ -132,7 +132,7 @@ def test_markdown_report(screened, tmp_path):
     out = write_report(corridor, result, tmp_path / "r.md")
     text = out.read_text(encoding="utf-8")
     assert text.startswith("# Report test")
-    assert text.count(CAUTION) == 2
+    assert text.count(CAUTION) == 3  # top, hand-over block, bottom
     for sid in result.ids:
         assert f"| {sid} |" in text
 
@@ -141,10 +141,13 @@ def test_csv_report_one_row_per_segment_in_chosen_units(screened, tmp_path):
     corridor, result = screened
     si = write_report(corridor, result, tmp_path / "si.csv").read_text(encoding="utf-8")
     us = write_report(corridor, result, tmp_path / "us.csv", units="us").read_text(encoding="utf-8")
-    assert si.startswith(f"# {CAUTION}")
+    assert si.startswith("segment,wall,")  # the first row is the header
     rows_si = _rows(si)
     rows_us = _rows(us)
     assert [r["segment"] for r in rows_si] == list(result.ids)
+    assert {r["caution"] for r in rows_si} == {CAUTION}  # on every row, in its own column
+    about = (tmp_path / "si-about.txt").read_text(encoding="utf-8")
+    assert CAUTION in about and "engine version:" in about
     # 1 ft = 0.3048 m exactly (NIST SP 811)
     for a, b in zip(rows_si, rows_us, strict=True):
         assert float(b["L_ft"]) == pytest.approx(float(a["L_m"]) / 0.3048, abs=2e-3)
@@ -152,8 +155,8 @@ def test_csv_report_one_row_per_segment_in_chosen_units(screened, tmp_path):
 
 
 def _rows(text: str) -> list[dict[str, str]]:
-    body = "\n".join(line for line in text.splitlines() if not line.startswith("#"))
-    return list(csv.DictReader(io.StringIO(body)))
+    """What any CSV reader gets from the report: no lines to skip."""
+    return list(csv.DictReader(io.StringIO(text)))
 
 
 def test_bad_output_paths_are_input_errors_and_old_reports_survive(screened, tmp_path):
@@ -168,7 +171,7 @@ def test_bad_output_paths_are_input_errors_and_old_reports_survive(screened, tmp
         write_report(corridor, result, target, units="cubits")
     assert target.read_text() == "old report"
     write_report(corridor, result, target)
-    assert target.read_text().startswith("#") and list(tmp_path.glob(".keep.csv.*")) == []
+    assert target.read_text().startswith("segment,") and list(tmp_path.glob(".keep.csv.*")) == []
 
 
 def test_report_data_refuses_a_screen_of_another_corridor(screened):

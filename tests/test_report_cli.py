@@ -59,7 +59,7 @@ def test_report_command_writes_each_format(corridor_file, tmp_path, suffix, caps
     assert main(["report", str(corridor_file), "-o", str(out)]) == 0
     text = out.read_text(encoding="utf-8")
     assert "Screening only, not a design" in text
-    assert "NRL-01" in text and "W2-03" in text
+    assert "NRL-01" in text and "W2-02" in text
 
 
 def test_report_command_refuses_an_unknown_format(corridor_file, tmp_path, capsys):
@@ -77,7 +77,7 @@ def test_diff_command(corridor_file, tmp_path, capsys):
     assert "NRL-01  traffic none -> parallel" in text
     assert main(["diff", str(corridor_file), str(changed), "--json"]) == 0
     payload = json.loads(capsys.readouterr().out)
-    assert {s["id"] for s in payload["segments"]} >= {"NRL-01", "W2-03"}
+    assert {s["id"] for s in payload["segments"]} >= {"NRL-01", "W2-02"}
     assert all(
         s["inputs"] == [{"field": "traffic", "old": "none", "new": "parallel"}]
         for s in payload["segments"]

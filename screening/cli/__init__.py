@@ -74,15 +74,22 @@ def _parser() -> argparse.ArgumentParser:
         action="store_true",
         help="leave out the ranked sensitivity of marginal and referred segments",
     )
+    r.add_argument(
+        "--rates",
+        type=Path,
+        metavar="FILE",
+        help="unit rates ([rates] table) instead of the corridor's own and the shipped ones",
+    )
+    r.add_argument("--project", help="project name in the hand-over block (default: corridor)")
+    r.add_argument("--revision", help="revision of the corridor file, e.g. P02")
 
-    n = sub.add_parser("new", help="build a corridor file from a chainage profile")
+    n = sub.add_parser("new", help="start a corridor file: empty, or built from a chainage profile")
     n.add_argument("file", type=Path, help="corridor file to write")
     n.add_argument(
         "--from-profile",
         type=Path,
-        required=True,
         metavar="PROFILE",
-        help="CSV (chainage + levels or height) or LandXML profile",
+        help="CSV (chainage + levels or height) or LandXML profile (none: an empty corridor)",
     )
     n.add_argument("--name", help="corridor name (default: the profile's file name)")
     n.add_argument(
@@ -94,6 +101,21 @@ def _parser() -> argparse.ArgumentParser:
     )
     n.add_argument(
         "--max-length", type=float, default=30.0, metavar="M", help="longest segment (m)"
+    )
+    n.add_argument(
+        "--min-length",
+        type=float,
+        default=5.0,
+        metavar="M",
+        help="shortest segment (m): shorter pieces join a neighbour of the same wall",
+    )
+    n.add_argument(
+        "--round",
+        dest="round_m",
+        type=float,
+        default=0.1,
+        metavar="M",
+        help="round the chainages of the cuts to this step (m); 0 keeps them as computed",
     )
     n.add_argument(
         "--break",
@@ -131,6 +153,12 @@ def _tui_parser() -> argparse.ArgumentParser:
     )
     p.add_argument("--version", action="version", version=f"wallscreen {__version__}")
     p.add_argument("file", type=Path, nargs="?", help="corridor file (.toml)")
+    p.add_argument(
+        "--rates",
+        type=Path,
+        metavar="FILE",
+        help="unit rates ([rates] table) instead of the corridor's own and the shipped ones",
+    )
     return p
 
 
@@ -145,7 +173,7 @@ def main(argv: Sequence[str] | None = None) -> int:
             print("\nwallscreen [FILE] opens the terminal interface.")
             return EXIT_OK
         args = _tui_parser().parse_args(args_list)
-        return commands.open_tui(args.file)
+        return commands.open_tui(args.file, args.rates)
     except WallscreenError as err:
         for line in str(err).splitlines() or [""]:
             print(f"wallscreen: {line}", file=sys.stderr)

@@ -210,6 +210,9 @@ def cmd_report(args: argparse.Namespace) -> int:
             f"report type {suffix or '(none)'!r} not known; use .html, .md or .csv",
             file=str(args.output),
         )
+    from screening.corridor.quantities import load_rates, rates_words
+
+    rates = load_rates(args.rates) if args.rates is not None else None
     corridor, result, _ = _load_and_screen(args.file, args.factor_set)
     result = _with_mechanism(corridor, result, args.mechanism)
     if args.monte_carlo < 0:
@@ -221,11 +224,20 @@ def cmd_report(args: argparse.Namespace) -> int:
         result,
         args.output,
         units=args.units,
+        rates=rates,
         sensitivity=not args.no_sensitivity,
         monte_carlo_samples=args.monte_carlo,
         seed=args.seed,
+        project=args.project or "",
+        revision=args.revision or "",
+        source=args.file,
+        rates_source=rates_words(corridor, args.rates),
     )
     print(f"wrote {args.output}")
+    if suffix == ".csv":
+        from screening.report import about_path
+
+        print(f"wrote {about_path(args.output)} (what the CSV is, where it comes from, cautions)")
     return EXIT_OK
 
 
@@ -238,18 +250,48 @@ def cmd_new(args: argparse.Namespace) -> int:
         raise InputError(
             "file exists; choose another name or pass --force to overwrite it", file=str(args.file)
         )
+    if args.file.suffix != ".toml":
+        raise InputError("a corridor file ends in .toml", file=str(args.file))
+    if args.from_profile is None:
+        from screening.profile.build import empty_corridor
+
+        corridor = empty_corridor(args.name or args.file.stem, args.factor_set)
+        store.save(args.file, corridor)
+        print(
+            f"wrote {args.file}: an empty corridor. Open it with `wallscreen {args.file}` and "
+            "press a to add the first segment."
+        )
+        print(defaults_words(corridor))
+        return EXIT_OK
     corridor = corridor_from_profile(
         args.from_profile,
         name=args.name or args.from_profile.stem,
         factor_set_id=args.factor_set,
         max_step_m=args.max_step,
         max_length_m=args.max_length,
+        min_length_m=args.min_length,
+        round_m=args.round_m,
         breaks=tuple(args.breaks),
         profile_unit=args.profile_unit,
     )
     store.save(args.file, corridor, keep_comments=False)  # a new corridor: not the old notes
-    print(f"wrote {args.file}: {len(corridor.segments)} segments")
+    walls = len({s.wall for s in corridor.segments})
+    print(f"wrote {args.file}: {len(corridor.segments)} segments in {walls} wall(s)")
+    print(
+        f"cuts at height steps over {args.max_step:g} m and lengths over {args.max_length:g} m, "
+        f"rounded to {args.round_m:g} m; no segment under {args.min_length:g} m"
+    )
+    print(defaults_words(corridor))
     return EXIT_OK
+
+
+def defaults_words(corridor) -> str:
+    """Which inputs every new segment took without being told, so none is a surprise."""
+    from screening.profile.build import defaults_used
+
+    lines = ["Every segment starts with these defaults (edit the [defaults] table or segments):"]
+    lines += [f"  {line}" for line in defaults_used(corridor)]
+    return "\n".join(lines)
 
 
 def cmd_presets(args: argparse.Namespace) -> int:
@@ -316,15 +358,15 @@ def cmd_diff(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
-def open_tui(path: Path | None) -> int:
+def open_tui(path: Path | None, rates: Path | None = None) -> int:
     from screening.model.errors import InputError
 
     if path is not None and not path.exists():
         raise InputError(
-            "no such file; give an existing corridor file, or "
-            "`wallscreen new FILE --from-profile PROFILE` to make one",
+            f"no such file; give an existing corridor file, or start one: `wallscreen new "
+            f"{path}` (empty) or `wallscreen new {path} --from-profile PROFILE.csv`",
             file=str(path),
         )
     from screening.tui.app import run_app
 
-    return run_app(path)
+    return run_app(path, rates)

@@ -13,8 +13,9 @@ embedment at each end, with the segment's embedment ratio):
   geosynthetics in m² per grade (L × run × Rc); steel strips as a count (whole strips per
   layer), their total length and mass; bar mats as mass of longitudinal and transverse
   bars. Steel density 7850 kg/m³ [mem, EN 1991-1-1 Table A.4, 77-78.5 kN/m³];
-- ``cost``: quantities × unit rates from ``presets/rates.toml`` (placeholders until the
-  user replaces them; :attr:`Rates.placeholder` says so).
+- ``cost``: quantities × unit rates: the shipped ``presets/rates.toml`` (placeholders;
+  :attr:`Rates.placeholder` says so), with a corridor file's own ``[rates]`` table over
+  them, or a whole rates file given with ``--rates FILE``.
 
 Layers for which no grade passes are counted at the heaviest grade and flagged.
 """
@@ -59,10 +60,17 @@ class Rates:
         )
 
 
+RATE_KEYS = ("face_m2", "levelling_pad_m", "select_fill_m3", "steel_kg", "geosynthetic_m2")
+"""The rates every corridor uses; a table that sets all of them is no longer placeholder."""
+
+
 def load_rates(path: str | Path | None = None) -> Rates:
-    """Rates from ``path`` (default: the shipped presets/rates.toml); InputError on a problem."""
+    """Rates from ``path`` (default: the shipped presets/rates.toml); InputError on a problem.
+
+    A rates file holds one ``[rates]`` table, as the shipped one (``wallscreen report
+    --rates FILE``); keys it leaves out keep the shipped values."""
     from screening.model.presets import parse_toml, presets_root, read_text
-    from screening.model.schema import SourceMap, Where, build, number, suggest, table
+    from screening.model.schema import SourceMap, Where, suggest
 
     file = Path(str(presets_root() / RATES_FILE)) if path is None else Path(path)
     source = str(file)
@@ -74,13 +82,52 @@ def load_rates(path: str | Path | None = None) -> Rates:
             raise Where(source, section=("", 0), smap=where.smap).error(
                 key, suggest(key, ["rates"]), at_value=False
             )
-    tab = dict(table(doc.get("rates", {}), "rates", where))
+    return rates_from_table(doc.get("rates", {}), where, None if path is None else load_rates())
+
+
+def rates_from_table(value: object, where, base: Rates | None = None) -> Rates:
+    """A ``[rates]`` table (of a rates file or of a corridor file) over ``base`` (None: the
+    model's own defaults); InputError, at the key, on a problem. The result is
+    placeholder only while it keeps some placeholder rate of ``base`` (or says so)."""
+    from screening.model.schema import Where, build, number, table
+
+    tab = dict(table(value, "rates", where))
     grades = table(tab.pop("grade", {}), "grade", where.inline("grade"))
-    rates = build(Rates, tab, where, inline=False)
-    sub = Where(source, table="rates.grade", section=("rates.grade", 0), smap=where.smap)
-    return Rates(
-        **{**rates.__dict__, "grade_m2": {k: number(v, k, sub) for k, v in grades.items()}}
-    )
+    rates = build(Rates, tab, where, base=base, inline=False)
+    sub = Where(where.file, table="rates.grade", section=("rates.grade", 0), smap=where.smap)
+    grade_m2 = dict(base.grade_m2) if base is not None else {}
+    grade_m2.update({k: number(v, k, sub) for k, v in grades.items()})
+    placeholder = rates.placeholder
+    if base is not None and "placeholder" not in tab:
+        placeholder = base.placeholder and not all(k in tab for k in RATE_KEYS)
+    return Rates(**{**rates.__dict__, "grade_m2": grade_m2, "placeholder": placeholder})
+
+
+def corridor_rates(corridor: Corridor, override: Rates | None = None) -> Rates:
+    """The rates a corridor's costs use: ``override`` (``--rates FILE``) when given, else
+    the corridor file's own ``[rates]`` table over the shipped rates."""
+    if override is not None:
+        return override
+    table = getattr(corridor, "rates", None)
+    if not table:
+        return load_rates()
+    from screening.model.schema import Where
+
+    return rates_from_table(dict(table), Where("corridor file", table="rates"), load_rates())
+
+
+def rates_words(corridor: Corridor, override_path: str | Path | None = None) -> str:
+    """Where the rates come from, in a few words."""
+    if override_path is not None:
+        return f"rates from {override_path}"
+    if getattr(corridor, "rates", None):
+        return "rates from the corridor file's [rates] table (the rest shipped)"
+    return "shipped rates (presets/rates.toml)"
+
+
+def amount(value: float) -> str:
+    """A sum of money or a count as every screen and report writes it: ``12,345``."""
+    return f"{value:,.0f}"
 
 
 @dataclass(frozen=True)
@@ -196,7 +243,7 @@ def corridor_quantities(
         s.id for s in corridor.segments
     ]:
         raise InputError("the screen does not belong to this corridor; screen it again")
-    rates = rates if rates is not None else load_rates()
+    rates = rates if rates is not None else corridor_rates(corridor)
     n = len(corridor.segments)
     along = np.array([s.length_along_m for s in corridor.segments], dtype=float)
     spacing = np.array([s.spacing_m for s in corridor.segments], dtype=float)

@@ -8,7 +8,7 @@ field names below, so the store can map files to objects field by field.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Literal
+from typing import Any, Literal
 
 SCHEMA = "wallscreen/1"
 
@@ -93,7 +93,7 @@ class Grade:
     """
 
     name: str
-    """Short name shown in tables, e.g. ``"GG-55"`` or ``"4 strips/m"``."""
+    """Short name shown in tables, e.g. ``"PET 55 kN/m"`` or ``"4 strips/m"``."""
     coverage_ratio: float = 1.0
     """Rc = b/Sh: fraction of the wall width covered (1.0 = full-width sheet)."""
     ultimate_strength_kn_m: float | None = None
@@ -346,6 +346,9 @@ class Corridor:
     design_life_years: float | None = None
     """None: 75 years for walls, 100 for abutments (rules preset)."""
     note: str = ""
+    rates: dict[str, Any] | None = field(default=None, compare=False, hash=False)
+    """The corridor file's own ``[rates]`` table (unit rates over the shipped ones), as
+    written; None: the shipped rates. Read by ``screening.corridor.quantities``."""
 
     @property
     def default_wall(self) -> str:

@@ -10,6 +10,7 @@ definitions of the foot (0.3048 m) and the pound-force (4.4482216152605 N)
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 
 FOOT_M = 0.3048
@@ -35,6 +36,11 @@ US: dict[str, tuple[str, float]] = {
     "m/m": ("ft/ft", 1.0),
 }
 """SI unit -> US customary unit and factor. Units not listed (deg, %, ratios) are unchanged."""
+
+_IN_WORDS = re.compile(
+    r"(?<![\w.])(-?\d+(?:\.\d+)?)\s?(kN/m³|kN/m3|kN/m|kPa|m²|m2|m³|m3|mm|m)(?![\w²³/])"
+)
+_WORD_UNITS = {"kN/m³": "kN/m3", "m²": "m2", "m³": "m3"}
 
 SI_LABELS = {"m2": "m²", "m3": "m³", "kN/m3": "kN/m³", "kg/m2": "kg/m²"}
 DIGITS = {"m": 2, "mm": 1, "m2": 1, "m3": 1, "kN/m": 1, "kN·m/m": 1, "kPa": 1, "kN/m3": 1, "kg": 0}
@@ -69,8 +75,19 @@ class Display:
     def format(self, value_si: float, unit_si: str, digits: int | None = None) -> str:
         value, label = convert(value_si, unit_si, self.system)
         d = DIGITS.get(unit_si, 2) if digits is None else digits
-        return (
-            f"{value:,.{d}f} {label}".replace(",", " ")
-            if abs(value) >= 10000
-            else f"{value:.{d}f} {label}"
-        )
+        return f"{value:,.{d}f} {label}"  # thousands by commas, as every amount is shown
+
+
+def in_words(text: str, display: Display) -> str:
+    """``text`` (an engine's reason, a note) with every SI quantity it names (``5.2 m``,
+    ``12 kPa``) shown in ``display``'s units, to as many decimals as it was written."""
+    if display.system == "si":
+        return text
+
+    def convert_one(match: re.Match[str]) -> str:
+        number, unit = match.group(1), _WORD_UNITS.get(match.group(2), match.group(2))
+        decimals = len(number.split(".")[1]) if "." in number else 0
+        value, label = convert(float(number), unit, display.system)
+        return f"{value:.{max(decimals, 1 if unit in ('m', 'kPa') else decimals)}f} {label}"
+
+    return _IN_WORDS.sub(convert_one, text)

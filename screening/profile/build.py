@@ -15,6 +15,7 @@ from pathlib import Path
 from screening.model import Corridor, Defaults, FactorSet, Rules, Segment
 from screening.model.errors import InputError
 from screening.profile.split import Piece, ProfileLine, split_profile, wall_code
+from screening.profile.tidy import tidy_pieces
 
 PROFILE_SUFFIXES = {".csv": "csv", ".txt": "csv", ".xml": "landxml", ".landxml": "landxml"}
 
@@ -104,6 +105,8 @@ def segments_from_lines(
     peak_tolerance_m: float = 0.05,
     min_height_m: float = 0.0,
     notes: list[str] | None = None,
+    round_m: float = 0.0,
+    min_length_m: float = 0.0,
 ) -> tuple[Segment, ...]:
     """Segments for every profile line, ids ``<wall code><L|R>-<nn>`` in chainage order.
 
@@ -144,6 +147,12 @@ def segments_from_lines(
             min_height_m=min_height_m,
         )
         pieces, dropped = join_low_pieces(pieces, spacing)
+        pieces, short = tidy_pieces(pieces, line, round_m, min_length_m)
+        if short:
+            notes.append(
+                f"{label}: kept {len(short)} piece(s) shorter than {min_length_m:g} m, as "
+                "joining them would hide a higher point, at chainage " + ", ".join(short)
+            )
         if dropped:
             notes.append(
                 f"{label}: left out {len(dropped)} stretch(es) lower than one layer spacing "
@@ -250,6 +259,8 @@ def corridor_from_profile(
     toe_profile: str | None = None,
     design_life_years: float | None = None,
     profile_unit: str = "m",
+    round_m: float = 0.1,
+    min_length_m: float = 5.0,
 ) -> Corridor:
     """A new corridor whose segments come from a chainage profile.
 
@@ -264,9 +275,14 @@ def corridor_from_profile(
     ``factor_set_id``; neither: aashto-lrfd) and ``rules`` (None: the rules preset).
     ``profile_unit``: ``ft`` for a CSV profile in feet (the corridor is always in metres);
     ``max_step_m``, ``max_length_m`` and ``breaks`` are in metres whatever the profile.
+    Cuts between segments are rounded to ``round_m`` (0.1 m: no 16.667 m chainages) and a
+    piece shorter than ``min_length_m`` joins a neighbour (see :func:`tidy_pieces`).
     """
     source = str(path)
     _check_settings(source, max_step_m, max_length_m, min_height_m)
+    for field, value in (("round_m", round_m), ("min_length_m", min_length_m)):
+        if value < 0.0:
+            raise InputError(f"{field} = {value:g}: give 0 or more", file=source, field=field)
     factor_set = _factor_set(factor_set, factor_set_id)
     if defaults is None:
         defaults = starting_defaults()
@@ -290,6 +306,8 @@ def corridor_from_profile(
         peak_tolerance_m=peak_tolerance_m,
         min_height_m=min_height_m,
         notes=notes,
+        round_m=round_m,
+        min_length_m=min_length_m,
     )
     if not segments:
         raise InputError(
@@ -305,8 +323,45 @@ def corridor_from_profile(
         note=" ".join(
             [
                 f"Segments made from the profile {Path(path).name}: new segment at a height "
-                f"change over {max_step_m:g} m or a length of {max_length_m:g} m.",
+                f"change over {max_step_m:g} m or a length of {max_length_m:g} m, cuts "
+                f"rounded to {round_m:g} m, none shorter than {min_length_m:g} m.",
                 *(n + "." for n in notes),
             ]
         ),
     )
+
+
+def empty_corridor(name: str = "New corridor", factor_set_id: str | None = None) -> Corridor:
+    """A corridor with no segments yet: the starting defaults, a preset factor set (None:
+    aashto-lrfd) and the rules preset; ``wallscreen new FILE`` and the interface's new
+    corridor start here."""
+    from screening.model.presets import load_presets
+
+    return Corridor(
+        name=name,
+        factor_set=_factor_set(None, factor_set_id),
+        defaults=starting_defaults(),
+        segments=(),
+        rules=load_presets().rules,
+    )
+
+
+def defaults_used(corridor: Corridor) -> list[str]:
+    """The corridor's defaults in words: what a new segment takes unless told otherwise."""
+    d = corridor.defaults
+    f, r = d.foundation, d.retained
+    spacing = d.spacing_m if d.spacing_m is not None else d.reinforcement.spacing_m
+    traffic = f"{d.traffic:g} kPa" if isinstance(d.traffic, int | float) else d.traffic
+    ground = f"foundation γ {f.unit_weight_kn_m3:g} kN/m³, φ′ {f.friction_deg:g}°, "
+    ground += f"c′ {f.cohesion_kpa:g} kPa, water {f.water_depth_m:g} m below the base"
+    return [
+        f"factor set {corridor.factor_set.id}; structure {d.structure}",
+        f"reinforced fill {getattr(d.fill, 'id', None) or 'inline'}; reinforcement "
+        f"{getattr(d.reinforcement, 'id', None) or 'inline'} at Sv {spacing:g} m",
+        f"retained soil γ {r.unit_weight_kn_m3:g} kN/m³, φ′ {r.friction_deg:g}°",
+        ground + (" (no firm layer given)" if f.firm_depth_m is None else ""),
+        f"traffic {traffic}; permanent surcharge {d.surcharge_kpa:g} kPa",
+        f"backslope {d.backslope_deg:g}°, toe slope {d.toe_slope_deg:g}°, seismic kh0 "
+        f"{d.seismic_kh:g} (0: static only)",
+        "a starting point to check against the site, not a recommendation",
+    ]

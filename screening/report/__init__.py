@@ -31,7 +31,7 @@ from screening.model import Corridor
 from screening.model.errors import InputError
 from screening.report.data import ReportData, build_report_data
 from screening.report.html_page import render_html
-from screening.report.text import render_csv, render_markdown
+from screening.report.text import render_about, render_csv, render_markdown
 
 __all__ = ["CAUTION", "FORMATS", "ReportData", "build_report_data", "write_report"]
 
@@ -49,6 +49,10 @@ def write_report(
     monte_carlo_samples: int = 0,
     monte_carlo_core_only: bool = False,
     seed: int = 0,
+    project: str = "",
+    revision: str = "",
+    source: str | os.PathLike[str] | None = None,
+    rates_source: str | None = None,
 ) -> Path:
     """Write the report of ``corridor`` and its screen to ``out_path``; return the path.
 
@@ -56,6 +60,9 @@ def write_report(
     presets/rates.toml); ``monte_carlo_samples`` > 0 adds each segment's probability of
     refer over that many seeded draws (``seed``); ``monte_carlo_core_only`` leaves the
     compound search out of those draws (tens of times faster, blind to compound stability).
+    ``project``, ``revision`` and ``source`` (the corridor file, hashed) go in the hand-over
+    block at the top; a CSV report also writes ``<name>-about.txt`` beside it with that
+    block and the cautions, so the CSV itself is one header row and one row a segment.
     """
     out = Path(out_path)
     kind = FORMATS.get(out.suffix.lower())
@@ -75,6 +82,10 @@ def write_report(
         monte_carlo_samples=monte_carlo_samples,
         monte_carlo_core_only=monte_carlo_core_only,
         seed=seed,
+        project=project,
+        revision=revision,
+        source=source,
+        rates_source=rates_source,
     )
     if kind == "html":
         text = render_html(data)
@@ -82,8 +93,14 @@ def write_report(
         text = render_markdown(data)
     else:
         text = render_csv(data)
+        _write_atomic(about_path(out), render_about(data))
     _write_atomic(out, text)
     return out
+
+
+def about_path(csv_path: Path) -> Path:
+    """``screen.csv`` -> ``screen-about.txt``: the hand-over block of a CSV report."""
+    return csv_path.with_name(f"{csv_path.stem}-about.txt")
 
 
 def _write_atomic(path: Path, text: str) -> None:

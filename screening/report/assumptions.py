@@ -7,6 +7,7 @@ import dataclasses
 
 from screening.model import Fill, Reinforcement
 from screening.report.data import ReportData
+from screening.report.labels import field_label, shown
 from screening.report.tables import Table
 
 
@@ -35,19 +36,27 @@ def assumptions(data: ReportData) -> list[Table]:
             ["display units", data.display.system.upper()],
         ],
     )
+    d = data.display
     case_fields = [f.name for f in dataclasses.fields(fs.cases[0])] if fs.cases else []
     cases = Table(
         "Load cases of the factor set",
-        case_fields,
+        [field_label(f, d) for f in case_fields],
         [[_cell(getattr(case, f)) for f in case_fields] for case in fs.cases],
     )
+    asd = fs.method == "asd"
     resistance = Table(
-        "Resistance factors", ["check", "factor"], [[k, f"{v:g}"] for k, v in fs.resistance.items()]
+        "Resistance factors",
+        ["check", "factor of safety FS" if asd else "resistance factor φ"],
+        [[k, f"{1 / v:.3g}" if asd and v > 0 else f"{v:g}"] for k, v in fs.resistance.items()],
+        "Allowable stress: capacity divided by FS." if asd else "",
     )
     rules = Table(
         "Screening rules",
         ["rule", "value"],
-        [[f.name, _cell(getattr(c.rules, f.name))] for f in dataclasses.fields(c.rules)],
+        [
+            [field_label(f.name, d), shown(f.name, getattr(c.rules, f.name), d)]
+            for f in dataclasses.fields(c.rules)
+        ],
     )
     return [general, cases, resistance, rules, *_materials(data)]
 
@@ -67,22 +76,20 @@ def _materials(data: ReportData) -> list[Table]:
         if not seen:
             continue
         sample = next(iter(seen))
+        d = data.display
         names = [f.name for f in dataclasses.fields(sample) if f.name not in ("note", "name")]
-        rows = [[*(_cell(getattr(obj, n)) for n in names), _ids(ids)] for obj, ids in seen.items()]
-        out.append(
-            Table(
-                title,
-                [*names, "segments"],
-                rows,
-                "Values as stored in the file (SI, unit in each name).",
-            )
-        )
+        rows = [
+            [*(shown(n, getattr(obj, n), d) for n in names), _ids(ids)] for obj, ids in seen.items()
+        ]
+        out.append(Table(title, [*(field_label(n, d) for n in names), "segments"], rows))
     fams: dict[Reinforcement, list[str]] = {}
     for s in c.segments:
         fams.setdefault(s.reinforcement, []).append(s.id)
     for fam, ids in fams.items():
         names = [f.name for f in dataclasses.fields(fam) if f.name not in ("grades", "note")]
-        rows = [[n, _cell(getattr(fam, n))] for n in names]
+        rows = [
+            [field_label(n, data.display), shown(n, getattr(fam, n), data.display)] for n in names
+        ]
         rows.append(["grades", "; ".join(_grade(g) for g in fam.grades)])
         rows.append(["segments", _ids(ids)])
         out.append(

@@ -5,9 +5,17 @@ cross-section, and notes on what was left out)."""
 from __future__ import annotations
 
 import datetime
+import hashlib
 from dataclasses import dataclass, field
+from pathlib import Path
 
-from screening.corridor.quantities import CorridorQuantities, Rates, corridor_quantities, load_rates
+from screening.corridor.quantities import (
+    CorridorQuantities,
+    Rates,
+    corridor_quantities,
+    corridor_rates,
+    rates_words,
+)
 from screening.corridor.sensitivity import (
     MonteCarlo,
     Sensitivity,
@@ -42,6 +50,13 @@ class ReportData:
     """Things the reader should know about the report itself (what was left out)."""
     cross_sections: list[int] = field(default_factory=list)
     """Segments drawn across the wall, in corridor order."""
+    project: str = ""
+    revision: str = ""
+    source: str = ""
+    """The corridor file the report was made from ("" when unsaved edits were reported)."""
+    source_sha256: str = ""
+    """SHA-256 of that file's bytes, so the reader can tell it is the same file."""
+    rates_source: str = "shipped rates (presets/rates.toml)"
 
     @property
     def flagged(self) -> list[int]:
@@ -62,20 +77,35 @@ def build_report_data(
     monte_carlo_core_only: bool = False,
     seed: int = 0,
     today: datetime.date | None = None,
+    project: str = "",
+    revision: str = "",
+    source: str | Path | None = None,
+    rates_source: str | None = None,
 ) -> ReportData:
     """Compute quantities, sensitivity and (optionally) Monte Carlo for a report."""
     if list(result.ids) != [s.id for s in corridor.segments]:
         raise InputError("the screen does not belong to this corridor; screen it again")
     notes: list[str] = []
     try:
-        quantities = corridor_quantities(
-            corridor, result, rates if rates is not None else load_rates()
-        )
+        quantities = corridor_quantities(corridor, result, corridor_rates(corridor, rates))
     except InputError as err:
         quantities = None
         notes.append(f"Quantities left out: {err}")
     ranges = load_ranges()
+    digest = ""
+    if source is not None:
+        try:
+            digest = hashlib.sha256(Path(source).read_bytes()).hexdigest()
+        except OSError as err:
+            raise InputError(
+                f"cannot read the corridor file ({err.strerror})", file=str(source)
+            ) from None
     data = ReportData(
+        project=project or corridor.name,
+        revision=revision,
+        source=str(source) if source is not None else "",
+        source_sha256=digest,
+        rates_source=rates_source or rates_words(corridor),
         corridor=corridor,
         result=result,
         display=Display(units),

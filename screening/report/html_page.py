@@ -11,6 +11,7 @@ from screening.report.assumptions import assumptions
 from screening.report.data import ReportData
 from screening.report.figures import VERDICT_COLOUR, cross_section_png, long_section_png, walls
 from screening.report.mechanism_figure import mechanism_figure_html
+from screening.report.handover import handover, inputs_table
 from screening.report.tables import Table
 
 STYLE = """
@@ -71,6 +72,7 @@ def render_html(data: ReportData) -> str:
         f"factor set {escape(c.factor_set.id)}; {len(r)} segments; units {data.display.system.upper()}.</p>"
     )
     add(f'<p class="caution">{escape(CAUTION)}</p>')
+    add(table_html(handover(data)))
     sections = [
         ("summary", "Summary"),
         ("long-section", "Long sections"),
@@ -119,6 +121,7 @@ def render_html(data: ReportData) -> str:
 
     add('<h2 id="segments">Segments</h2>')
     add(table_html(tables.segments(data)))
+    add(table_html(inputs_table(data)))
 
     add('<h2 id="checks">Checks</h2>')
     add(table_html(tables.cdr_overview(data)))

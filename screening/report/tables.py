@@ -9,9 +9,12 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 
+from screening.corridor.quantities import amount
 from screening.engine.result import UNITS, cdr_text
 from screening.model import VERDICTS
+from screening.model.units import in_words
 from screening.report.data import ReportData
+from screening.report.labels import field_label, margin_of
 
 CHECK_ORDER = (
     "sliding",
@@ -90,7 +93,7 @@ def by_wall(data: ReportData) -> Table:
             _num(data, sum(s.face_area_m2 for s in segs), "m2"),
         ]
         if q is not None:
-            row.append(f"{sum(q.segments[i].cost_total for i in idx):,.0f}")
+            row.append(amount(sum(q.segments[i].cost_total for i in idx)))
         rows.append(row)
     m = _u(data, "m")
     header = [
@@ -107,7 +110,11 @@ def by_wall(data: ReportData) -> Table:
 
 def reasons(data: ReportData) -> Table:
     r = data.result
-    rows = [[r.ids[i], r.verdict[i], "; ".join(r.reasons[i])] for i in data.flagged]
+    d = data.display
+    rows = [
+        [r.ids[i], r.verdict[i], "; ".join(in_words(x, d) for x in r.reasons[i])]
+        for i in data.flagged
+    ]
     return Table("Why segments are not clear", ["segment", "verdict", "reasons"], rows)
 
 
@@ -126,8 +133,8 @@ def segments(data: ReportData) -> Table:
                 _num(data, float(r.length_m[i]), "m"),
                 f"{float(r.length_ratio[i]):.2f}",
                 _num(data, float(r.rule_length_m[i]), "m"),
-                r.governing[i],
-                cdr_text(r.min_cdr[i]),
+                r.length_set_by[i],
+                _margin(r, i),
                 r.verdict[i],
             ]
         )
@@ -136,16 +143,28 @@ def segments(data: ReportData) -> Table:
         "wall",
         f"chainage ({m})",
         f"exposed height start / end ({m})",
-        f"design H ({m})",
+        f"design height Hd ({m})",
         f"embedment ({m})",
         f"L ({m})",
-        "L/H",
+        "L/Hd",
         f"rule L ({m})",
-        "governing",
-        "min CDR",
+        "L set by",
+        "least margin",
         "verdict",
     ]
-    return Table("Segments", header, rows)
+    return Table(
+        "Segments",
+        header,
+        rows,
+        "L set by: the check whose shortest passing length is L, or the rule that sets it. "
+        "Least margin: the smallest CDR of the other checks (for a referred segment, the "
+        "failing check or the rule that refers it).",
+    )
+
+
+def _margin(r, i: int) -> str:
+    check, cdr = margin_of(r, i)
+    return "-" if not check else (check if cdr is None else f"{check} {cdr_text(cdr)}")
 
 
 def cdr_overview(data: ReportData) -> Table:
@@ -212,7 +231,7 @@ def quantities(data: ReportData) -> list[Table]:
                 str(s.strip_count) if s.strip_count else "",
                 _num(data, s.steel_kg, "kg") if s.steel_kg else "",
                 _num(data, geo, "m2") if geo else "",
-                f"{s.cost_total:,.0f}" + (" *" if s.short_grade else ""),
+                amount(s.cost_total) + (" *" if s.short_grade else ""),
             ]
         )
     total = [
@@ -226,7 +245,7 @@ def quantities(data: ReportData) -> list[Table]:
         str(int(q.total("strip_count"))),
         _num(data, q.total("steel_kg"), "kg"),
         _num(data, sum(q.geosynthetic_m2().values()), "m2"),
-        f"{q.total('cost_total'):,.0f}",
+        amount(q.total("cost_total")),
     ]
     header = [
         "segment",
@@ -261,16 +280,27 @@ def quantities(data: ReportData) -> list[Table]:
     cost = Table(
         "Rough cost by item",
         ["item", f"cost ({cur})"],
-        [[k, f"{v:,.0f}"] for k, v in q.cost().items()]
-        + [["total", f"{q.total('cost_total'):,.0f}"]],
+        [[k, amount(v)] for k, v in q.cost().items()] + [["total", amount(q.total("cost_total"))]],
         placeholder.strip(),
     )
     rates = Table(
         "Unit rates used",
         ["rate", "value"],
-        [[f.name, str(getattr(q.rates, f.name))] for f in dataclasses.fields(q.rates)],
+        [
+            [field_label(f.name), _rate(getattr(q.rates, f.name))]
+            for f in dataclasses.fields(q.rates)
+        ],
+        data.rates_source,
     )
     return [main, grades, cost, rates]
+
+
+def _rate(value: object) -> str:
+    if isinstance(value, dict):
+        return ", ".join(f"{k} {v:g}" for k, v in value.items()) or "none"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    return f"{value:g}" if isinstance(value, float) else str(value)
 
 
 def sensitivity(data: ReportData) -> list[Table]:

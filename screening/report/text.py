@@ -7,9 +7,11 @@ import io
 
 from screening import CAUTION
 from screening.engine.result import cdr_text
+from screening.model.units import in_words
 from screening.report import tables
 from screening.report.assumptions import assumptions
 from screening.report.data import ReportData
+from screening.report.handover import handover, inputs_table
 from screening.report.tables import Table
 
 
@@ -36,6 +38,7 @@ def render_markdown(data: ReportData) -> str:
         "",
         f"> **{CAUTION}**",
         "",
+        table_md(handover(data)),
         "## Summary",
         "",
         table_md(tables.summary(data)),
@@ -45,7 +48,7 @@ def render_markdown(data: ReportData) -> str:
         out.append(table_md(tables.reasons(data)))
     out += [f"_{n}_\n" for n in data.notes]
     out += ["Figures (long sections, cross-sections) are in the HTML report.", ""]
-    out += ["## Segments", "", table_md(tables.segments(data))]
+    out += ["## Segments", "", table_md(tables.segments(data)), table_md(inputs_table(data))]
     out += ["## Checks", "", table_md(tables.cdr_overview(data))]
     out += [table_md(t) for t in tables.check_tables(data)]
     out += ["## Quantities and rough cost", ""]
@@ -67,40 +70,50 @@ def render_markdown(data: ReportData) -> str:
     return "\n".join(out)
 
 
-def render_csv(data: ReportData) -> str:
-    """One row per segment, numbers in the display units named in the header.
+def render_about(data: ReportData) -> str:
+    """The hand-over block and the cautions of a CSV report, as plain text beside it."""
+    lines = ["wallscreen screening report (CSV): what it is and where it comes from", ""]
+    for item, value in handover(data).rows:
+        lines.append(f"{item + ':':<28} {value}")
+    lines += ["", "Cautions", *(f"- {c}" for c in CAUTIONS), ""]
+    return "\n".join(lines)
 
-    The first lines are ``#`` comments with the caution and the provenance (most
-    spreadsheet and data tools can skip them, e.g. ``comment="#"``).
-    """
+
+CAUTIONS = (
+    CAUTION,
+    "Verdicts come from simplified checks and rules of thumb at option or preliminary "
+    "stage; a clear segment still needs a full design by the designer of record.",
+    "Quantities and costs are rough; placeholder rates are invented figures.",
+)
+
+
+def render_csv(data: ReportData) -> str:
+    """One header row, then one row per segment; numbers in the display units named in
+    the header; the caution in the last column of every row (readable by any CSV reader,
+    e.g. ``csv.DictReader``). The hand-over block goes in ``<name>-about.txt`` beside it."""
     c, r, d = data.corridor, data.result, data.display
     names = tables.checks_present(data)
     m = d.label("m")
     buf = io.StringIO()
-    buf.write(f"# {CAUTION}\n")
     units = {"m": d.label("m"), "m2": "ft2" if d.system == "us" else "m2"}
     units["m3"] = "yd3" if d.system == "us" else "m3"
     units["kg"] = d.label("kg")
-    cost = f"; rough cost in {data.quantities.rates.currency}" if data.quantities else ""
-    placeholder = (
-        " (PLACEHOLDER rates)" if data.quantities and data.quantities.rates.placeholder else ""
-    )
-    buf.write(
-        f"# {c.name}; {data.date}; engine {r.engine_version}; factor set {c.factor_set.id}{cost}{placeholder}\n"
-    )
     w = csv.writer(buf, lineterminator="\n")
     header = [
         "segment",
         "wall",
         f"chainage_start_{m}",
         f"chainage_end_{m}",
-        f"height_start_{m}",
-        f"height_end_{m}",
+        f"exposed_height_start_{m}",
+        f"exposed_height_end_{m}",
         f"design_height_{m}",
         f"embedment_{m}",
         f"L_{m}",
-        "L_over_H",
+        "L_over_Hd",
         f"rule_L_{m}",
+        "L_set_by",
+        "least_margin_check",
+        "least_margin_cdr",
         "governing",
         "min_cdr",
         "verdict",
@@ -114,9 +127,10 @@ def render_csv(data: ReportData) -> str:
             "steel_strips",
             f"steel_{units['kg']}",
             f"geosynthetic_{units['m2']}",
-            "rough_cost",
+            f"rough_cost_{q.rates.currency.replace(' ', '_')}",
+            "placeholder_rates",
         ]
-    header.append("reasons")
+    header += ["reasons", "caution"]
     w.writerow(header)
     for i, s in enumerate(c.segments):
         row = [
@@ -132,6 +146,9 @@ def render_csv(data: ReportData) -> str:
             ),
             f"{float(r.length_ratio[i]):.3f}",
             f"{d.value(float(r.rule_length_m[i]), 'm'):.3f}",
+            r.length_set_by[i],
+            r.margin_check[i],
+            cdr_text(r.margin_cdr[i], 3) if r.margin_check[i] else "",
             r.governing[i],
             cdr_text(r.min_cdr[i], 3),
             r.verdict[i],
@@ -146,7 +163,8 @@ def render_csv(data: ReportData) -> str:
                 f"{d.value(sq.steel_kg, 'kg'):.1f}",
                 f"{d.value(sum(sq.geosynthetic_m2.values()), 'm2'):.2f}",
                 f"{sq.cost_total:.0f}",
+                "yes" if q.rates.placeholder else "no",
             ]
-        row.append("; ".join(r.reasons[i]))
+        row += ["; ".join(in_words(x, d) for x in r.reasons[i]), CAUTION]
         w.writerow(row)
     return buf.getvalue()

@@ -32,7 +32,7 @@ from screening.model.validate import (
 )
 from screening.store.safe_write import remove_stale_temps
 
-TOP_KEYS = ("schema", "screen", "corridor", "defaults", "rules", "segment")
+TOP_KEYS = ("schema", "screen", "corridor", "defaults", "rules", "rates", "segment")
 CORRIDOR_KEYS = ("name", "factor_set", "design_life_years", "note")
 DEFAULT_FACTOR_SET = "aashto-lrfd"
 
@@ -143,7 +143,19 @@ def _corridor(
         segments.append(seg)
         wheres.append(where)
     check_unique_ids(tuple(segments), wheres)
-    return model.Corridor(name, factor_set, defaults, tuple(segments), rules, life, note)
+    rates = _rates(doc.get("rates"), Where(source, table="rates", section=("rates", 0), smap=smap))
+    return model.Corridor(name, factor_set, defaults, tuple(segments), rules, life, note, rates)
+
+
+def _rates(value: Any, where: Where) -> dict[str, Any] | None:
+    """The file's own ``[rates]`` table, checked key by key over the shipped rates (the
+    corridor keeps it as written, so a save writes it back unchanged)."""
+    if value is None:
+        return None
+    from screening.corridor.quantities import load_rates, rates_from_table
+
+    rates_from_table(value, where, load_rates())
+    return dict(value)
 
 
 def _defaults(tab: dict[str, Any], where: Where, presets: Presets) -> model.Defaults:

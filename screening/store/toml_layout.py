@@ -130,6 +130,6 @@ def dumps_document(doc: dict[str, Any]) -> str:
     always sections, so the file keeps the same shape whatever their size.
     """
     out: list[str] = []
-    force = frozenset({"screen", "corridor", "defaults", "rules", "segment", "result"})
+    force = frozenset({"screen", "corridor", "defaults", "rules", "rates", "segment", "result"})
     _section([], doc, out, force=force)
     return "\n".join(out).lstrip("\n") + "\n"

@@ -110,6 +110,8 @@ def _document(corridor: model.Corridor, result: Any, presets: Presets) -> dict[s
     rules = differences(corridor.rules, presets.rules)
     if rules:
         doc["rules"] = rules
+    if getattr(corridor, "rates", None):
+        doc["rates"] = dict(corridor.rates)  # the file's own unit rates, as written
     doc["segment"] = [
         _segment_table(s, d, corridor.default_wall, presets, result, rows.get(s.id))
         for s in corridor.segments

@@ -16,6 +16,7 @@ from textual.screen import Screen
 from screening import store
 from screening.model import presets as presets_module
 from screening.model.errors import WallscreenError
+from screening.model.units import Display
 from screening.tui.config import load_state, save_state
 from screening.tui.keys import ACTIONS, all_keys
 from screening.tui.screens.about import AboutScreen
@@ -47,9 +48,10 @@ class WallscreenApp(App[int]):
 
     def on_mount(self) -> None:
         self.theme = "textual-dark"
+        state = load_state()
+        self.session.display = Display(state.units)  # the units chosen last time
         self.corridor_screen = CorridorScreen(self.session)
         self.push_screen(self.corridor_screen)
-        state = load_state()
         if self.session.path is not None:
             state.remember(self.session.path)
             save_state(state)
@@ -92,10 +94,15 @@ class WallscreenApp(App[int]):
             self.exit(0)
 
 
-def run_app(path: Path | None) -> int:
-    """Open the interface on ``path`` (None: the demo); the exit code for the shell."""
+def run_app(path: Path | None, rates: Path | None = None) -> int:
+    """Open the interface on ``path`` (None: the demo), with the unit rates of ``rates``
+    (None: the corridor's own and the shipped ones); the exit code for the shell."""
     try:
         session = open_session(path)
+        if rates is not None:
+            from screening.corridor.quantities import load_rates
+
+            session.rates_override, session.rates_path = load_rates(rates), rates
     except WallscreenError as err:
         print(f"wallscreen: {err}", file=sys.stderr)
         return 2

@@ -37,6 +37,8 @@ class InterfaceState:
     """Absolute paths of corridor files, most recent first."""
     cautions_seen: bool = False
     """True once the cautions were acknowledged on a first start."""
+    units: str = "si"
+    """Display units last chosen: ``si`` or ``us`` (files stay SI)."""
 
     def remember(self, path: Path) -> None:
         """Put ``path`` at the top of the recent list (once), keeping the list short."""
@@ -69,12 +71,15 @@ def load_state() -> InterfaceState:
     return InterfaceState(
         recent=[p for p in recent if isinstance(p, str) and _exists(p)][:MAX_RECENT],
         cautions_seen=seen if isinstance(seen, bool) else False,
+        units=data.get("units") if data.get("units") in ("si", "us") else "si",
     )
 
 
 def save_state(state: InterfaceState) -> None:
     """Write the state atomically; failure to write is not worth stopping for."""
-    text = tomli_w.dumps({"cautions_seen": state.cautions_seen, "recent": state.recent})
+    text = tomli_w.dumps(
+        {"cautions_seen": state.cautions_seen, "units": state.units, "recent": state.recent}
+    )
     with contextlib.suppress(OSError, RuntimeError):
         folder = config_dir()
         folder.mkdir(parents=True, exist_ok=True)
@@ -86,3 +91,10 @@ def save_state(state: InterfaceState) -> None:
         finally:
             with contextlib.suppress(FileNotFoundError):
                 os.unlink(tmp)
+
+
+def remember_units(system: str) -> None:
+    """Keep the display units chosen for the next start."""
+    state = load_state()
+    state.units = system
+    save_state(state)

@@ -17,7 +17,13 @@ import numpy as np
 
 from screening import engine, store
 from screening.corridor.diff import CorridorDiff, diff_corridors
-from screening.corridor.quantities import Rates, SegmentQuantities, corridor_quantities, load_rates
+from screening.corridor.quantities import (
+    Rates,
+    SegmentQuantities,
+    amount,
+    corridor_quantities,
+    corridor_rates,
+)
 from screening.corridor.sensitivity import Sensitivity, segment_sensitivity
 from screening.engine.context import take_rows
 from screening.engine.result import CorridorResult
@@ -25,6 +31,7 @@ from screening.model import Corridor, Segment
 from screening.model.errors import InputError
 from screening.model.units import Display
 from screening.report import FORMATS
+from screening.report.labels import unit_of
 
 # ------------------------------------------------------------------ quantities
 
@@ -41,31 +48,34 @@ def row_result(result: CorridorResult, i: int) -> CorridorResult:
     )
 
 
-_rates: dict[str, Rates] = {}
+_rates: dict[object, tuple[object, Rates]] = {}
 
 
-def shipped_rates() -> Rates:
-    """The unit rates of presets/rates.toml, read once per run."""
-    if "shipped" not in _rates:
-        _rates["shipped"] = load_rates()
-    return _rates["shipped"]
+def rates_for(corridor: Corridor, override: Rates | None = None) -> Rates:
+    """The rates of ``corridor`` (its ``[rates]`` table over the shipped ones), or
+    ``override`` (``--rates FILE``); worked out once per table."""
+    if override is not None:
+        return override
+    table = getattr(corridor, "rates", None)
+    key = id(table)
+    hit = _rates.get(key)
+    if hit is None or hit[0] is not table:
+        _rates[key] = (table, corridor_rates(corridor))
+    return _rates[key][1]
 
 
-def rates_path() -> str:
-    from screening.model.presets import presets_root
-
-    return str(presets_root() / "rates.toml")
-
-
-def segment_quantities(corridor: Corridor, result: CorridorResult, i: int) -> SegmentQuantities:
+def segment_quantities(
+    corridor: Corridor, result: CorridorResult, i: int, override: Rates | None = None
+) -> SegmentQuantities:
     """Quantities and rough cost of segment ``i`` (its own screen only: cheap, and right
     even while other rows wait for a re-screen)."""
     one = dataclasses.replace(corridor, segments=(corridor.segments[i],))
-    return corridor_quantities(one, row_result(result, i), shipped_rates()).segments[0]
+    rates = rates_for(corridor, override)
+    return corridor_quantities(one, row_result(result, i), rates).segments[0]
 
 
 def reinforcement_words(q: SegmentQuantities, display: Display) -> str:
-    """``400 strips, 1960 m, 3077 kg`` or ``GX-35 120 m², GX-55 40 m²``."""
+    """``400 strips, 1960 m, 3077 kg`` or ``PET 35 kN/m 120 m², PET 55 kN/m 40 m²``."""
     if q.geosynthetic_m2:
         return ", ".join(
             f"{name} {display.format(area, 'm2', 0)}" for name, area in q.geosynthetic_m2.items()
@@ -79,7 +89,7 @@ def reinforcement_words(q: SegmentQuantities, display: Display) -> str:
 
 
 def money(value: float) -> str:
-    return f"{value:,.0f}"
+    return amount(value)
 
 
 # ------------------------------------------------------------------ report
@@ -129,24 +139,9 @@ def compare_with(
     return diff_corridors(other, corridor, other_result, result)
 
 
-UNIT_SUFFIXES = (
-    ("_kn_m3", "kN/m3"),
-    ("_kn_m", "kN/m"),
-    ("_kpa", "kPa"),
-    ("_mm", "mm"),
-    ("_m", "m"),
-)
-"""Field-name endings (the project's units-in-names rule) and the SI unit they mean."""
-
-
 def field_unit(path: str) -> str | None:
-    leaf = path.rsplit(".", 1)[-1]
-    for suffix, unit in UNIT_SUFFIXES:
-        if leaf.endswith(suffix):
-            return unit
-    if leaf.endswith("_deg"):
-        return "°"
-    return None
+    """SI unit named by a field's ending (``_kn_m3``, ``_m``, ``_deg`` ...), or None."""
+    return unit_of(path)
 
 
 def show_value(value: Any, path: str, display: Display) -> str:

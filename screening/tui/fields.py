@@ -11,6 +11,9 @@ import dataclasses
 from dataclasses import dataclass
 
 from screening.model import Segment
+from screening.model.units import Display
+
+SI = Display("si")
 
 
 @dataclass(frozen=True)
@@ -19,6 +22,8 @@ class FieldSpec:
     """Segment field, dotted for a soil's value (``retained.friction_deg``)."""
     label: str
     unit: str
+    """SI unit of the stored value (``m``, ``kPa``, ``kN/m3``, ``°``; "" for none): shown
+    and typed in the display units (:meth:`screening.model.units.Display.label`)."""
     hint: str
     """What may be typed."""
 
@@ -29,8 +34,8 @@ FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("structure", "Structure", "", "wall | abutment"),
     FieldSpec("chainage_start_m", "Chainage from", "m", "number"),
     FieldSpec("chainage_end_m", "Chainage to", "m", "number > from"),
-    FieldSpec("height_start_m", "Height at from", "m", "exposed height > 0"),
-    FieldSpec("height_end_m", "Height at to", "m", "exposed height > 0"),
+    FieldSpec("height_start_m", "Exposed at from", "m", "exposed height > 0"),
+    FieldSpec("height_end_m", "Exposed at to", "m", "exposed height > 0"),
     FieldSpec("fill", "Reinforced fill", "", "fill preset id"),
     FieldSpec("reinforcement", "Reinforcement", "", "reinforcement preset id"),
     FieldSpec("spacing_m", "Layer spacing", "m", "vertical spacing Sv"),
@@ -39,9 +44,9 @@ FIELDS: tuple[FieldSpec, ...] = (
     FieldSpec("backslope_deg", "Backslope", "°", "slope above the wall"),
     FieldSpec("toe_slope_deg", "Toe slope", "°", "ground falling in front"),
     FieldSpec("seismic_kh", "Seismic kh", "", "0 = static only"),
-    FieldSpec("retained.unit_weight_kn_m3", "Retained γ", "kN/m³", "unit weight"),
+    FieldSpec("retained.unit_weight_kn_m3", "Retained γ", "kN/m3", "unit weight"),
     FieldSpec("retained.friction_deg", "Retained φ′", "°", "friction angle"),
-    FieldSpec("foundation.unit_weight_kn_m3", "Foundation γ", "kN/m³", "unit weight"),
+    FieldSpec("foundation.unit_weight_kn_m3", "Foundation γ", "kN/m3", "unit weight"),
     FieldSpec("foundation.friction_deg", "Foundation φ′", "°", "friction angle"),
     FieldSpec("foundation.cohesion_kpa", "Foundation c′", "kPa", "effective cohesion"),
     FieldSpec("foundation.undrained_strength_kpa", "Foundation cu", "kPa", "blank = drained"),
@@ -63,8 +68,16 @@ def value_of(segment: Segment, name: str) -> object:
     return obj
 
 
-def display(segment: Segment, name: str) -> str:
-    """The value as the editor shows it, so that typing it back changes nothing."""
+def unit_of(name: str) -> str:
+    """SI unit of a field ("" for none); traffic given as a number is in kPa."""
+    spec = BY_NAME.get(name)
+    if name == "traffic":
+        return "kPa"
+    return spec.unit if spec is not None else ""
+
+
+def display(segment: Segment, name: str, units: Display = SI) -> str:
+    """The value as the editor shows it (in ``units``), so typing it back changes nothing."""
     value = value_of(segment, name)
     if name in ("fill", "reinforcement"):
         return getattr(value, "id", None) or "inline"
@@ -73,8 +86,22 @@ def display(segment: Segment, name: str) -> str:
     if value is None:
         return ""
     if isinstance(value, float):
-        return f"{value:g}"
+        return f"{units.value(value, unit_of(name)):.6g}"
     return str(value)
+
+
+def to_si(raw: str, name: str, units: Display = SI) -> str:
+    """What the user typed, with a number in the display units turned into SI text (the
+    store parses SI); anything else is passed on unchanged for the store to judge."""
+    if units.system == "si":
+        return raw
+    unit = unit_of(name)
+    try:
+        value = float(raw.strip())
+    except ValueError:
+        return raw
+    factor = units.value(1.0, unit)
+    return repr(round(value / factor, 4)) if factor != 1.0 else raw
 
 
 def with_value(segment: Segment, name: str, value: object) -> Segment:
@@ -97,7 +124,9 @@ def _sub_value(raw: str) -> object:
         return s
 
 
-def parse_value(segment: Segment, name: str, raw: str, presets: object) -> object:
+def parse_value(
+    segment: Segment, name: str, raw: str, presets: object, units: Display = SI
+) -> object:
     """The value ``raw`` stands for in field ``name`` of ``segment``; InputError says why not.
 
     Plain fields go straight to the store's ``coerce_field``. A soil value
@@ -106,6 +135,7 @@ def parse_value(segment: Segment, name: str, raw: str, presets: object) -> objec
     """
     from screening.model.validate import coerce_field
 
+    raw = to_si(raw, name, units)
     head, _, sub = name.partition(".")
     if not sub:
         return coerce_field(name, raw, presets)

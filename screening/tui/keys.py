@@ -56,6 +56,51 @@ ACTIONS: tuple[KeyAction, ...] = (
         "Move the cursor to the next segment referred to full design.",
         "Look",
     ),
+    # -- what the table shows
+    KeyAction(
+        "fold_wall",
+        "z",
+        "Fold",
+        "Fold the cursor's wall to its summary line, or unfold it (Enter on a wall's line too).",
+        "Show",
+    ),
+    KeyAction("fold_all", "Z", "Fold all", "Fold every wall, or unfold them all.", "Show"),
+    KeyAction(
+        "toggle_grouping",
+        "g",
+        "Group",
+        "Group the table by wall with a summary line each, or show one flat list.",
+        "Show",
+    ),
+    KeyAction(
+        "sort",
+        "o",
+        "Sort",
+        "Sort the segments of each wall by any column (the same column again reverses).",
+        "Show",
+    ),
+    KeyAction("filter_wall", "w", "Wall", "Show one wall only, or every wall.", "Show"),
+    KeyAction(
+        "filter_verdict",
+        "V",
+        "Verdicts",
+        "Show only referred, flagged (refer and marginal), marginal or clear segments.",
+        "Show",
+    ),
+    KeyAction(
+        "filter_text",
+        "slash",
+        "Find",
+        "Show only segments whose id, wall, note, presets or reasons contain some words.",
+        "Show",
+    ),
+    KeyAction(
+        "layout_problems",
+        "exclamation_mark",
+        "Gaps",
+        "List the overlaps and gaps between segments of one wall, and go to one.",
+        "Show",
+    ),
     # -- corridor operations
     KeyAction(
         "add_segment",
@@ -87,17 +132,10 @@ ACTIONS: tuple[KeyAction, ...] = (
         "Corridor",
     ),
     KeyAction(
-        "sort_chainage",
-        "o",
-        "Order",
-        "Put the segments in order of start chainage (then wall).",
-        "Corridor",
-    ),
-    KeyAction(
         "bulk_edit",
         "b",
         "Bulk edit",
-        "Set one field for every segment of the marked range.",
+        "Set one field for every segment of the marked range (on a wall's line: the wall).",
         "Corridor",
         True,
     ),
@@ -120,12 +158,19 @@ ACTIONS: tuple[KeyAction, ...] = (
         "cancel_screen",
         "escape",
         "Cancel",
-        "Cancel a running screen, or clear the marked range.",
+        "Cancel a running screen, or clear the marked range, or show every segment again.",
         "Corridor",
     ),
     KeyAction("undo", "u,ctrl+z", "Undo", "Undo the last change.", "Corridor", True),
     KeyAction("redo", "ctrl+y,U", "Redo", "Redo the change just undone.", "Corridor"),
     # -- files
+    KeyAction(
+        "new_corridor",
+        "ctrl+n",
+        "New",
+        "Start an empty corridor (asks first if there are unsaved changes).",
+        "Files",
+    ),
     KeyAction(
         "open_file",
         "ctrl+o",
@@ -212,6 +257,8 @@ def shown_key(keys: str) -> str:
         "escape": "Esc",
         "space": "Space",
         "delete": "Del",
+        "slash": "/",
+        "exclamation_mark": "!",
     }
     if first in names:
         return names[first]

@@ -10,11 +10,11 @@ segments, or switch the factor set, empty the result (``None``) for a whole new 
 from __future__ import annotations
 
 import dataclasses
-import re
 from dataclasses import dataclass
 from pathlib import Path
 
 from screening import engine, store
+from screening.corridor.layout import LayoutProblem, find_layout_problems
 from screening.engine.result import CorridorResult
 from screening.model import Corridor, Segment
 from screening.model.errors import InputError
@@ -22,6 +22,14 @@ from screening.model.location import Where
 from screening.model.units import Display
 from screening.model.validate import check_corridor, check_segment
 from screening.tui.fields import BY_NAME, parse_value, with_value
+from screening.tui.placing import (
+    chainage_order,
+    first_segment,
+    fresh_id,
+    place_after,
+    split_chainage,
+    split_segment,
+)
 
 UNDO_DEPTH = 40
 
@@ -44,34 +52,6 @@ class Change:
     """Rows whose inputs and results changed in place; None: the segment list changed."""
     cursor: int | None = None
     """Row to put the cursor on afterwards (None: leave it)."""
-
-
-def fresh_id(base: str, taken: set[str]) -> str:
-    """An id not in ``taken``, made from ``base``: ``E-04`` -> ``E-05`` if free, else
-    ``E-04b``, ``E-04c`` ... (the trailing number keeps its width)."""
-    match = re.fullmatch(r"(.*?)(\d+)", base)
-    if match:
-        stem, digits = match.groups()
-        candidate = f"{stem}{int(digits) + 1:0{len(digits)}d}"
-        if candidate not in taken:
-            return candidate
-    return lettered_id(base, taken)
-
-
-def lettered_id(base: str, taken: set[str]) -> str:
-    """``base`` with the first free letter b, c, ... appended (``base-N`` past z)."""
-    for letter in "bcdefghijklmnopqrstuvwxyz":
-        if f"{base}{letter}" not in taken:
-            return f"{base}{letter}"
-    n = 2
-    while f"{base}-{n}" in taken:
-        n += 1
-    return f"{base}-{n}"
-
-
-def chainage_order(segments: tuple[Segment, ...]) -> tuple[Segment, ...]:
-    """Segments by start chainage, then wall (stable: equal keys keep the file's order)."""
-    return tuple(sorted(segments, key=lambda s: (s.chainage_start_m, s.wall)))
 
 
 def screen_rows(corridor: Corridor, rows: list[int], **options: object) -> CorridorResult:
@@ -100,10 +80,14 @@ class Session:
         self.presets = presets
         self.display = Display("si")
         """Units things are shown in (``us``: ft, psf, ...); the file and engine stay SI."""
+        self.rates_override = None
+        """Rates given with ``--rates FILE`` (they replace the corridor's own and shipped)."""
+        self.rates_path: Path | None = None
         self._undo: list[_State] = []
         self._redo: list[_State] = []
         self._saved: Corridor | None = corridor
         self._coalesce: tuple[int, str] | None = None
+        self._layout: tuple[tuple[Segment, ...], list[LayoutProblem]] | None = None
 
     # ------------------------------------------------------------------ state
 
@@ -195,7 +179,7 @@ class Session:
     def parse(self, field: str, raw: str, row: int = 0) -> object:
         """The value ``raw`` stands for in ``field`` (of segment ``row``, for soil values);
         InputError says why not."""
-        return parse_value(self.corridor.segments[row], field, raw, self.presets)
+        return parse_value(self.corridor.segments[row], field, raw, self.presets, self.display)
 
     def _checked(self, segments: list[Segment], rows: list[int], field: str) -> None:
         """InputError unless the changed segments are consistent in themselves and, for a
@@ -259,80 +243,85 @@ class Session:
 
     def add_after(self, row: int) -> Change:
         """A new segment after ``row``: same wall and inputs, continuing its chainage at
-        its end height, 10 m long (or as long as the one before, if shorter)."""
+        its end height, 10 m long (or as long as the one before, if shorter). Never over
+        another segment of the wall: a gap is filled, a taken chainage sends it to the
+        wall's end. In an empty corridor: the first segment, from the defaults."""
+        if not self.corridor.segments:
+            new = first_segment(self.corridor)
+            return self._structural(f"added {new.id}, the first segment", [new], 0)
         base = self.corridor.segments[row]
-        length = min(10.0, base.length_along_m)
+        place = place_after(self.corridor, row, min(10.0, base.length_along_m))
         new = dataclasses.replace(
             base,
             id=fresh_id(base.id, self._taken()),
-            chainage_start_m=base.chainage_end_m,
-            chainage_end_m=base.chainage_end_m + length,
-            height_start_m=base.height_end_m,
-            height_end_m=base.height_end_m,
+            chainage_start_m=place.start_m,
+            chainage_end_m=place.end_m,
+            height_start_m=place.height_m,
+            height_end_m=place.height_m,
             note="",
         )
-        segments = list(self.corridor.segments)
-        segments.insert(row + 1, new)
-        return self._structural(f"added {new.id}", segments, row + 1)
+        return self._insert(new, place.after, f"added {new.id}", place.words)
 
     def duplicate(self, row: int) -> Change:
-        """A copy of ``row`` with a new id, placed right after it along the chainage."""
+        """A copy of ``row`` with a new id, placed after it along its wall (never over
+        another segment: see :meth:`add_after`)."""
         base = self.corridor.segments[row]
+        place = place_after(self.corridor, row, base.length_along_m)
         new = dataclasses.replace(
             base,
             id=fresh_id(base.id, self._taken()),
-            chainage_start_m=base.chainage_end_m,
-            chainage_end_m=base.chainage_end_m + base.length_along_m,
+            chainage_start_m=place.start_m,
+            chainage_end_m=place.end_m,
         )
+        return self._insert(new, place.after, f"copied {base.id} to {new.id}", place.words)
+
+    def _insert(self, new: Segment, after: int, label: str, words: str) -> Change:
         segments = list(self.corridor.segments)
-        segments.insert(row + 1, new)
-        return self._structural(f"copied {base.id} to {new.id}", segments, row + 1)
+        segments.insert(after + 1, new)
+        a, b = (
+            self.display.value(new.chainage_start_m, "m"),
+            self.display.value(new.chainage_end_m, "m"),
+        )
+        where = f" at {a:.1f}–{b:.1f} {self.display.label('m')}"
+        return self._structural(
+            label + where + (f" ({words})" if words else ""), segments, after + 1
+        )
 
     def split(self, row: int, raw_chainage: str) -> Change:
-        """Cut ``row`` in two at a chainage strictly inside it; heights are interpolated."""
+        """Cut ``row`` in two at a chainage strictly inside it (typed in the display
+        units); heights are interpolated."""
         seg = self.corridor.segments[row]
-        try:
-            at = float(raw_chainage)
-        except ValueError:
-            raise InputError(
-                f"{raw_chainage.strip()!r} is not a number: type a chainage in metres",
-                segment=seg.id,
-                field="chainage",
-            ) from None
-        if not seg.chainage_start_m < at < seg.chainage_end_m:
-            raise InputError(
-                f"{at:g} is outside the segment: give a chainage between "
-                f"{seg.chainage_start_m:g} and {seg.chainage_end_m:g} m",
-                segment=seg.id,
-                field="chainage",
-            )
-        t = (at - seg.chainage_start_m) / seg.length_along_m
-        h_at = round(seg.height_start_m + t * (seg.height_end_m - seg.height_start_m), 3)
-        first = dataclasses.replace(seg, chainage_end_m=at, height_end_m=h_at)
-        second = dataclasses.replace(
-            seg,
-            id=lettered_id(seg.id, self._taken()),
-            chainage_start_m=at,
-            height_start_m=h_at,
-        )
+        at = split_chainage(seg, raw_chainage, self.display)
+        first, second = split_segment(seg, at, self._taken())
         segments = list(self.corridor.segments)
         segments[row : row + 1] = [first, second]
-        return self._structural(f"split {seg.id} at {at:g} m", segments, row)
+        where = f"{self.display.value(at, 'm'):g} {self.display.label('m')}"
+        return self._structural(f"split {seg.id} at {where}", segments, row)
 
     def delete(self, rows: list[int]) -> Change:
-        """Remove ``rows``; a corridor keeps at least one segment."""
-        if len(rows) >= len(self.corridor.segments):
-            raise InputError("a corridor needs at least one segment: add one before deleting this")
+        """Remove ``rows`` (every one of them, too: an empty corridor can be refilled)."""
         gone = set(rows)
         ids = [self.corridor.segments[i].id for i in sorted(gone)]
         segments = [s for i, s in enumerate(self.corridor.segments) if i not in gone]
         label = f"deleted {ids[0]}" if len(ids) == 1 else f"deleted {len(ids)} segments"
-        return self._structural(label, segments, min(min(gone), len(segments) - 1))
+        return self._structural(label, segments, max(0, min(min(gone), len(segments) - 1)))
 
     def sort_by_chainage(self) -> Change:
-        """Order the segments by start chainage, then by wall."""
+        """Order the segments wall by wall, each wall in chainage order."""
         order = list(chainage_order(self.corridor.segments))
-        return self._structural("put in chainage order", order, 0)
+        return self._structural("put in chainage order, wall by wall", order, 0)
+
+    # ------------------------------------------------------------------ layout
+
+    def layout_problems(self) -> list[LayoutProblem]:
+        """Overlaps and gaps between neighbours of one wall (worked out once per corridor)."""
+        if self._layout is None or self._layout[0] is not self.corridor.segments:
+            self._layout = (self.corridor.segments, find_layout_problems(self.corridor))
+        return self._layout[1]
+
+    def problem_ids(self) -> set[str]:
+        """Ids of the segments on either side of an overlap or a gap."""
+        return {i for p in self.layout_problems() for i in (p.first_id, p.second_id)}
 
     def set_factor_set(self, factor_set_id: str) -> Change:
         """Screen the whole corridor under another factor set (from the presets)."""

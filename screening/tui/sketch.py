@@ -18,6 +18,9 @@ from rich.text import Text
 
 from screening.engine.result import SegmentResult
 from screening.model import Segment
+from screening.model.units import Display
+
+SI = Display("si")
 
 CELL_ASPECT = 2.0
 """Height of a terminal cell over its width."""
@@ -86,8 +89,11 @@ def _tension_line(res: SegmentResult, kind: str) -> tuple[np.ndarray, np.ndarray
     return np.asarray(depth), np.asarray(la)
 
 
-def draw_section(segment: Segment, res: SegmentResult, width: int = 64, height: int = 18) -> Text:
-    """The segment's cross-section in ``width`` x ``height`` cells (face on the left)."""
+def draw_section(
+    segment: Segment, res: SegmentResult, width: int = 64, height: int = 18, display: Display = SI
+) -> Text:
+    """The segment's cross-section in ``width`` x ``height`` cells (face on the left),
+    labelled in ``display``'s units."""
     h = max(res.design_height_m, 0.5)
     length = max(res.length_m, 0.5)
     d = res.embedment_m
@@ -159,9 +165,9 @@ def draw_section(segment: Segment, res: SegmentResult, width: int = 64, height: 
     if q_live > 0 or q_perm > 0:
         words = []
         if q_live > 0:
-            words.append(f"traffic {q_live:.0f} kPa")
+            words.append(f"traffic {display.format(q_live, 'kPa', 0)}")
         if q_perm > 0:
-            words.append(f"surcharge {q_perm:.0f} kPa")
+            words.append(f"surcharge {display.format(q_perm, 'kPa', 0)}")
         start = face + max(1, round(0.3 / sx))
         for c in range(start, min(width, back + (back - face) // 3 + 1), 2):
             y_top = h + min(math.tan(beta) * (c - face) * sx, rise)
@@ -169,11 +175,12 @@ def draw_section(segment: Segment, res: SegmentResult, width: int = 64, height: 
         cv.write(start, 0, " + ".join(words), STYLES["load"])
 
     # dimensions
-    cv.write(back + 2, row(h * 0.5), f"L {res.length_m:.1f} m", STYLES["label"])
-    cv.write(back + 2, row(h * 0.5) + 1, f"L/H {res.length_m / h:.2f}", STYLES["label"])
-    label_h = f"H {res.design_height_m:.1f} m"
+    f = display.format
+    cv.write(back + 2, row(h * 0.5), f"L {f(res.length_m, 'm', 1)}", STYLES["label"])
+    cv.write(back + 2, row(h * 0.5) + 1, f"L/Hd {res.length_m / h:.2f}", STYLES["label"])
+    label_h = f"Hd {f(res.design_height_m, 'm', 1)}"
     cv.write(face - len(label_h) - 1, row(h * 0.6), label_h, STYLES["label"])
-    label_d = f"d {d:.2f} m"
+    label_d = f"d {f(d, 'm', 2)}"
     cv.write(face - len(label_d) - 1, row(d) - 1, label_d, STYLES["label"])
     cv.write(back + 2, row(0.0) + 1, "levelling pad", STYLES["label"])
     return cv.to_text()

@@ -53,7 +53,7 @@ cp "$("$PY" -c 'from screening.model.presets import demo_corridor_path; print(de
 ID="$("$PY" -c '
 import sys
 from screening import store
-from screening.tui.session import chainage_order
+from screening.tui.placing import chainage_order
 print(chainage_order(store.load(sys.argv[1]).segments)[3].id)' "$WORK/corridor.toml")"
 
 $T kill-server >/dev/null 2>&1
@@ -71,7 +71,7 @@ keys Down Down Down; pause 0.2
 keys e; wait_for "Segment $ID"; pause
 for _ in 1 2 3 4 5 6; do keys Tab; pause 0.2; done
 keys Home; pause 0.2; keys C-k; pause 0.2; text "7.5"
-wait_for "$ID: Height at to = 7.5 m"
+wait_for "$ID: Exposed at to = 7.5 m"
 wait_for "unsaved changes"; shot 3-edited
 keys Escape; pause
 

@@ -108,11 +108,15 @@ def test_long_section_compresses_gaps_and_marks_the_cursor(demo):
     gaps = np.isnan(x)
     assert gaps.sum() == GAP * (len(starts) - 1)
     assert np.all(np.diff(x[~gaps]) > 0)  # chainage grows left to right
-    cursor = len(demo.segments) - 1
-    text = section_text(demo, result, cursor, 150, 8).plain.split("\n")
-    assert len(text) == 8
-    marks = text[-3]
-    for v, mark in (("clear", "○"), ("marginal", "◑"), ("refer", "●")):
-        assert (mark in marks) == (v in result.verdict)
-    assert demo.segments[cursor].id in text[-2]
-    assert text[-1].rstrip().endswith(f"max {max(s.exposed_height_m for s in demo.segments):.1f} m")
+    for cursor in range(len(demo.segments)):
+        wall = demo.segments[cursor].wall
+        rows = [i for i, s in enumerate(demo.segments) if s.wall == wall]
+        text = section_text(demo, result, cursor, 150, 8).plain.split("\n")
+        assert len(text) == 8
+        marks = text[-3]
+        # only the cursor's wall: a wall beside it at the same chainage is not merged in
+        for v, mark in (("clear", "○"), ("marginal", "◑"), ("refer", "●")):
+            assert (mark in marks) == (v in [result.verdict[i] for i in rows])
+        assert demo.segments[cursor].id in text[-2]
+        tallest = max(demo.segments[i].exposed_height_m for i in rows)
+        assert text[-1].rstrip().endswith(f"{wall} · max exposed {tallest:.1f} m")

@@ -4,13 +4,14 @@ compared with an independent full run of ``engine.screen`` on the same inputs.""
 
 from __future__ import annotations
 
+import dataclasses
 from pathlib import Path
 
 from screening.tui.screens.choose import ChooseScreen
 from screening.tui.screens.prompt import PromptScreen
 
 from .conftest import make_app
-from .test_workflows import SIZE, rows_match_fresh_screen, settle, summary
+from .test_workflows import SIZE, goto, rows_match_fresh_screen, settle, summary
 
 
 async def test_bulk_edit_of_a_marked_range(corridor_file: Path):
@@ -19,7 +20,8 @@ async def test_bulk_edit_of_a_marked_range(corridor_file: Path):
         await settle(pilot, app)
         screen = app.corridor_screen
         before = screen.session.corridor.segments
-        await pilot.press("down", "space", "down", "down", "down", "b")
+        await goto(pilot, app, 1)
+        await pilot.press("space", "down", "down", "down", "b")
         await pilot.pause()
         chooser = app.screen
         assert isinstance(chooser, ChooseScreen)
@@ -37,25 +39,32 @@ async def test_bulk_edit_of_a_marked_range(corridor_file: Path):
         assert screen.anchor is None  # the range is cleared once applied
 
 
-async def test_bulk_edit_refuses_an_unknown_preset(corridor_file: Path):
+async def test_bulk_edit_of_a_preset_offers_only_the_presets(corridor_file: Path):
+    """A preset field is picked from the list of presets, so an unknown id cannot be set."""
+    from screening.model.presets import load_presets
+
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
         screen = app.corridor_screen
-        corridor = screen.session.corridor
+        await goto(pilot, app, 0)
         await pilot.press("space", "down", "b")
         await pilot.pause()
         chooser = app.screen
         chooser.query_one("#choices").highlighted = [v for v, _ in chooser.options].index("fill")
         await pilot.press("enter")
         await pilot.pause()
-        await pilot.press("home", "ctrl+k", *"gravelly", "enter")
+        values = app.screen
+        assert isinstance(values, ChooseScreen)
+        assert [v for v, _ in values.options] == list(load_presets().fills)
+        values.query_one("#choices").highlighted = [v for v, _ in values.options].index(
+            "crushed-rock"
+        )
+        await pilot.press("enter")
         await pilot.pause()
-        prompt = app.screen
-        assert isinstance(prompt, PromptScreen)  # Enter refused: still asking
-        assert "unknown fill preset" in str(prompt.query_one("#prompt-why").content)
-        await pilot.press("escape")
-        assert screen.session.corridor is corridor
+        segs = screen.session.corridor.segments
+        assert [s.fill.id for s in segs[:2]] == ["crushed-rock"] * 2
+        await rows_match_fresh_screen(pilot, app)
 
 
 async def test_split_at_a_chainage(corridor_file: Path):
@@ -66,7 +75,8 @@ async def test_split_at_a_chainage(corridor_file: Path):
         n = len(screen.session.corridor.segments)
         seg = screen.session.corridor.segments[1]
         at = seg.chainage_start_m + 0.25 * seg.length_along_m
-        await pilot.press("down", "s")
+        await goto(pilot, app, 1)
+        await pilot.press("s")
         await pilot.pause()
         await pilot.press("home", "ctrl+k", *f"{seg.chainage_end_m + 1:g}", "enter")
         await pilot.pause()
@@ -96,7 +106,8 @@ async def test_delete_then_undo_and_redo(corridor_file: Path):
         screen = app.corridor_screen
         original = screen.session.corridor
         gone = original.segments[2].id
-        await pilot.press("down", "down", "x")
+        await goto(pilot, app, 2)
+        await pilot.press("x")
         await pilot.pause()
         ids = [s.id for s in screen.session.corridor.segments]
         assert gone not in ids and len(ids) == len(original.segments) - 1
@@ -133,7 +144,12 @@ async def test_factor_set_switch_updates_every_verdict(corridor_file: Path):
         await rows_match_fresh_screen(pilot, app)
 
 
-async def test_add_and_duplicate_and_order(corridor_file: Path):
+async def test_add_and_copy_never_overlap_a_neighbour(corridor_file: Path):
+    """Add continues the wall at the end of the last segment; a copy of a segment whose
+    next chainage is taken goes to the wall's end. Segments of one wall must not overlap
+    (the file format's own rule), so lengths and costs are never counted twice."""
+    from screening.corridor.layout import find_layout_problems
+
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
@@ -145,13 +161,38 @@ async def test_add_and_duplicate_and_order(corridor_file: Path):
         segs = screen.session.corridor.segments
         assert len(segs) == n + 1 and segs[-1].chainage_start_m == last.chainage_end_m
         assert segs[-1].id not in {s.id for s in segs[:-1]}
-        await pilot.press("ctrl+home", "c")
+        first = segs[0]
+        ids = {s.id for s in segs}
+        wall_end = max(s.chainage_end_m for s in segs if s.wall == first.wall)
+        await goto(pilot, app, 0)
+        await pilot.press("c")
         await pilot.pause()
         segs = screen.session.corridor.segments
+        copy = next(s for s in segs if s.id not in ids and s.wall == first.wall)
         assert len(segs) == n + 2
-        assert segs[1].height_start_m == segs[0].height_start_m and segs[1].id != segs[0].id
+        assert copy.chainage_start_m == wall_end  # the chainage after it was taken
+        assert "end of the wall" in str(screen.query_one("#status").content)
+        assert not [p for p in find_layout_problems(screen.session.corridor) if p.kind == "overlap"]
+        await rows_match_fresh_screen(pilot, app)
+
+
+async def test_sort_by_chainage_puts_the_file_in_order(corridor_file: Path):
+    app = make_app(corridor_file)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
+        screen = app.corridor_screen
+        s = screen.session
+        shuffled = tuple(reversed(s.corridor.segments))
+        s.corridor = dataclasses.replace(s.corridor, segments=shuffled)
+        screen.table.load(s, screen.view, 0)
         await pilot.press("o")
         await pilot.pause()
-        starts = [s.chainage_start_m for s in screen.session.corridor.segments]
-        assert starts == sorted(starts)
+        chooser = app.screen
+        assert isinstance(chooser, ChooseScreen)
+        await pilot.press("enter")  # the first option: chainage along each wall
+        await pilot.pause()
+        segs = s.corridor.segments
+        for wall in {x.wall for x in segs}:
+            starts = [x.chainage_start_m for x in segs if x.wall == wall]
+            assert starts == sorted(starts)
         await rows_match_fresh_screen(pilot, app)

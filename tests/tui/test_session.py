@@ -5,7 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from screening.tui.config import MAX_RECENT, InterfaceState, load_state, save_state
-from screening.tui.session import fresh_id, lettered_id
+from screening.tui.placing import fresh_id, lettered_id
 
 
 def test_fresh_id_counts_on_and_keeps_the_width():

@@ -14,8 +14,8 @@ from .conftest import make_app
 SIZE = (160, 45)
 
 
-def picture(snap_compare, keys: list[str], *, cautions: bool = False) -> bool:
-    app = make_app(None, show_cautions=cautions)
+def picture(snap_compare, keys: list[str], *, cautions: bool = False, size=SIZE, path=None) -> bool:
+    app = make_app(path, show_cautions=cautions)
 
     async def settle_then_press(pilot) -> None:
         from .test_workflows import settle
@@ -25,7 +25,7 @@ def picture(snap_compare, keys: list[str], *, cautions: bool = False) -> bool:
         await pilot.press(*keys)
         await settle(pilot, app)
 
-    return snap_compare(app, run_before=settle_then_press, terminal_size=SIZE)
+    return snap_compare(app, run_before=settle_then_press, terminal_size=size)
 
 
 def test_corridor_view(snap_compare):
@@ -54,3 +54,45 @@ def test_presets_browser(snap_compare):
 
 def test_first_start_cautions(snap_compare):
     assert picture(snap_compare, [], cautions=True)
+
+
+# The layouts a practitioner meets on a laptop and in a split terminal: Id, Verdict and
+# CDR stay in sight at 80 x 24; the editor takes the table's place there.
+SMALL, MEDIUM = (80, 24), (120, 40)
+
+
+def test_corridor_view_80x24(snap_compare):
+    assert picture(snap_compare, ["down", "down"], size=SMALL)
+
+
+def test_corridor_view_120x40(snap_compare):
+    assert picture(snap_compare, ["down", "down"], size=MEDIUM)
+
+
+def test_folded_walls_120x40(snap_compare):
+    assert picture(snap_compare, ["Z"], size=MEDIUM)
+
+
+def test_editor_80x24(snap_compare):
+    assert picture(snap_compare, ["down", "e"], size=SMALL)
+
+
+def test_detail_view_80x24(snap_compare):
+    assert picture(snap_compare, ["down", "enter"], size=SMALL)
+
+
+def test_detail_view_120x40(snap_compare):
+    assert picture(snap_compare, ["down", "down", "enter"], size=MEDIUM)
+
+
+def test_us_units_120x40(snap_compare):
+    assert picture(snap_compare, ["t", "down", "down"], size=MEDIUM)
+
+
+def test_empty_corridor_80x24(snap_compare, tmp_path):
+    from screening import store
+    from screening.profile.build import empty_corridor
+
+    path = tmp_path / "empty.toml"
+    store.save(path, empty_corridor("Brook widening"))
+    assert picture(snap_compare, [], size=SMALL, path=path)

@@ -12,10 +12,11 @@ from rich.console import Console
 
 from screening import engine, store
 from screening.engine.result import cdr_text
-from screening.tui.cells import COLUMNS, VERDICT_MARK
+from screening.tui.cells import KEYS, VERDICT_MARK
 from screening.tui.screens.detail import DetailScreen
 from screening.tui.screens.prompt import PromptScreen
 from screening.tui.screens.unsaved import UnsavedScreen
+from screening.tui.view import margin_of
 from screening.tui.widgets.cross_section import CrossSection
 from screening.tui.widgets.summary_bar import SummaryBar
 
@@ -31,12 +32,20 @@ def plain(renderable) -> str:
     return console.export_text()
 
 
-COL = {key: i for i, (key, _, _) in enumerate(COLUMNS)}
+COL = {key: i for i, key in enumerate(KEYS)}
 
 
 def drawn(app, row: int, key: str) -> str:
-    """Text of one cell of the corridor table as drawn."""
-    return app.corridor_screen.table.get_row_at(row)[COL[key]].plain
+    """Text of one cell of segment ``row``'s line of the corridor table, as drawn."""
+    table = app.corridor_screen.table
+    return table.get_row_at(table.position[row])[COL[key]].plain.strip()
+
+
+async def goto(pilot, app, row: int) -> None:
+    """Put the table's cursor on segment ``row`` (what arrow keys would do)."""
+    screen = app.corridor_screen
+    screen.table.move_to(screen.session, row)
+    await pilot.pause()
 
 
 def summary(app) -> str:
@@ -58,19 +67,25 @@ async def rows_match_fresh_screen(pilot, app) -> None:
     await settle(pilot, app)
     corridor = app.corridor_screen.session.corridor
     fresh = engine.screen(corridor)
+    from screening.corridor.layout import find_layout_problems
+
+    near = {x for p in find_layout_problems(corridor) for x in (p.first_id, p.second_id)}
     for i in range(len(corridor.segments)):
-        assert drawn(app, i, "id") == corridor.segments[i].id
+        ident = drawn(app, i, "id")
+        assert ident.removeprefix("⚠").strip() == corridor.segments[i].id
+        assert ident.startswith("⚠") == (corridor.segments[i].id in near)  # gap or overlap
         assert drawn(app, i, "verdict") == f"{VERDICT_MARK[fresh.verdict[i]]} {fresh.verdict[i]}"
         assert drawn(app, i, "length") == f"{fresh.length_m[i]:.1f}"
-        assert drawn(app, i, "cdr") == cdr_text(fresh.min_cdr[i])
+        check, cdr = margin_of(fresh, i)
+        assert drawn(app, i, "cdr") == ("-" if cdr is None else cdr_text(cdr))
+        assert drawn(app, i, "margin") == (check or "-")
     for verdict, count in fresh.counts().items():
         assert f"{VERDICT_MARK[verdict]} {verdict} {count}" in summary(app)
     assert f"{len(corridor.segments)} segments" in summary(app)
 
 
 async def open_editor_at(pilot, app, row: int, field_tabs: int) -> None:
-    for _ in range(row):
-        await pilot.press("down")
+    await goto(pilot, app, row)
     await pilot.press("e")
     await pilot.pause()
     for _ in range(field_tabs):
@@ -90,7 +105,7 @@ async def test_edit_height_updates_row_and_summary_then_save_and_reopen(corridor
         await pilot.pause()
         after = screen.session.corridor.segments[row]
         assert after.id == before.id and after.height_end_m == 9.5
-        assert drawn(app, row, "heights").endswith("→9.5")
+        assert drawn(app, row, "exposed").endswith("→9.5")
         await rows_match_fresh_screen(pilot, app)
         assert screen.session.dirty
         await pilot.press("enter", "ctrl+s")
@@ -105,7 +120,7 @@ async def test_edit_height_updates_row_and_summary_then_save_and_reopen(corridor
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
         rows = [s.id for s in app.corridor_screen.session.corridor.segments]
-        assert drawn(app, rows.index(before.id), "heights").endswith("→9.5")
+        assert drawn(app, rows.index(before.id), "exposed").endswith("→9.5")
 
 
 async def test_invalid_value_is_refused_with_its_reason(corridor_file: Path):
@@ -236,7 +251,8 @@ async def test_detail_view_shows_checks_reasons_layers_and_sketch(corridor_file:
     app = make_app(corridor_file)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
-        await pilot.press("down", "enter")
+        await goto(pilot, app, 1)
+        await pilot.press("enter")
         await pilot.pause()
         detail = app.screen
         assert isinstance(detail, DetailScreen)

@@ -28,15 +28,40 @@ from screening.tui.widgets.title_bar import CautionLine
 STATUS_STYLE = {"added": "green", "removed": "red", "changed": "", "same": "dim"}
 
 
+PRESET_PARTS = ("fill", "reinforcement", "retained", "foundation")
+"""Inputs that are presets: one swapped for another reads as one line, not every value."""
+
+
+def collapsed_changes(changes, display: Display) -> list[tuple[str, str, str]]:
+    """(what, old, new) lines in the display units: a preset swapped for another (its id
+    changed) is one line ``reinforcement geogrid → steel-strip``, not every value of it."""
+    swapped = {
+        c.path.split(".")[0]: c
+        for c in changes
+        if c.path.count(".") == 1
+        and c.path.endswith(".id")
+        and c.path.split(".")[0] in PRESET_PARTS
+    }
+    out = []
+    for c in changes:
+        head = c.path.split(".")[0]
+        if head not in swapped:
+            old, new = show_value(c.old, c.path, display), show_value(c.new, c.path, display)
+            out.append((c.path, old, new))
+        elif c is swapped[head]:
+            out.append((head, str(c.old or "inline values"), str(c.new or "inline values")))
+    return out
+
+
 def _inputs(d: SegmentDiff, display: Display) -> Text:
     if not d.inputs:
         return Text("inputs unchanged", style="dim")
     out = Text()
-    for k, c in enumerate(d.inputs):
+    for k, (what, old, new) in enumerate(collapsed_changes(d.inputs, display)):
         if k:
             out.append("\n")
-        out.append(f"{c.path} ", style="bold")
-        out.append(f"{show_value(c.old, c.path, display)} → {show_value(c.new, c.path, display)}")
+        out.append(f"{what} ", style="bold")
+        out.append(f"{old} → {new}")
     return out
 
 

@@ -18,6 +18,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Checkbox, Input, Static
 
 from screening.model.errors import WallscreenError
+from screening.tui.completion import PathSuggester
 from screening.tui.corridor_tools import check_report_path
 
 
@@ -46,14 +47,21 @@ class ExportScreen(ModalScreen[ExportChoice | None]):
                 ),
                 classes="dialog-label",
             )
-            yield Input(value=self.suggested, id="export-path")
+            yield Input(
+                value=self.suggested,
+                id="export-path",
+                suggester=PathSuggester((".html", ".htm", ".md", ".csv")),
+            )
             yield Static("", id="export-why", classes="field-why")
             yield Checkbox(
                 f"Rank the inputs of the {self.flagged} referred and marginal segments (slower)",
                 value=True,
                 id="export-sensitivity",
             )
-            yield Static("Enter: write · Tab: options · Esc: cancel", classes="dialog-help")
+            yield Static(
+                "→: complete the path · Enter: write · Tab: options · Esc: cancel",
+                classes="dialog-help",
+            )
 
     def on_mount(self) -> None:
         self.query_one("#export-why").display = False

@@ -106,7 +106,14 @@ class FilesMixin:
                 self._write(Path(raw).expanduser(), then)
 
         self.app.push_screen(
-            PromptScreen("Save as", "Path of the corridor file to write:", current, _writable), done
+            PromptScreen(
+                "Save as",
+                "Path of the corridor file to write:",
+                current,
+                _writable,
+                paths=(".toml",),
+            ),
+            done,
         )
 
     # ------------------------------------------------------------------ open
@@ -125,18 +132,36 @@ class FilesMixin:
         if self.screening:
             self.cancel_screen()
         self.remember(path)
-        self.reset(Session(corridor, path, self.session.presets))
+        fresh = Session(corridor, path, self.session.presets)
+        fresh.rates_override = self.session.rates_override
+        fresh.rates_path = self.session.rates_path
+        self.reset(fresh)
         self.say(f"opened {path}")
         return True
 
     def action_open_file(self) -> None:
         def ask() -> None:
             self.app.push_screen(
-                PromptScreen("Open", "Path of a corridor file (.toml):", "", _existing),
+                PromptScreen(
+                    "Open", "Path of a corridor file (.toml):", "", _existing, paths=(".toml",)
+                ),
                 lambda raw: raw is not None and self.open_path(Path(raw).expanduser()),
             )
 
         self.guard("open another file", ask)
+
+    def action_new_corridor(self) -> None:
+        """An empty corridor with the shipped starting defaults (saved with save as)."""
+
+        def fresh() -> None:
+            from screening.profile.build import empty_corridor
+
+            if self.screening:
+                self.cancel_screen()
+            self.reset(Session(empty_corridor(), None, self.session.presets))
+            self.say("new corridor: a adds the first segment; ^s asks where to save it")
+
+        self.guard("start a new corridor", fresh)
 
     def action_recent_files(self) -> None:
         recent = load_state().recent

@@ -15,6 +15,12 @@ from textual.screen import Screen
 from textual.widgets import Footer, OptionList, Static
 from textual.widgets.option_list import Option
 
+from screening.model.units import Display
+from screening.report.labels import field_label
+from screening.tui.corridor_tools import field_unit
+
+SI = Display("si")
+
 GROUPS = (("fills", "Fills"), ("reinforcement", "Reinforcement"), ("factor_sets", "Factor sets"))
 WORDS = ("name", "note", "source", "id")
 
@@ -31,7 +37,7 @@ def _fmt(value: object) -> str:
     return str(value)
 
 
-def _rows_table(items: tuple[object, ...], title: str) -> Table:
+def _rows_table(items: tuple[object, ...], title: str, display: Display = SI) -> Table:
     """A table of dataclasses (grades, load cases). Few fields: one row per item; many
     fields: one row per field and one column per item, so nothing gets squeezed."""
     names = [f.name for f in dataclasses.fields(items[0])]
@@ -46,9 +52,9 @@ def _rows_table(items: tuple[object, ...], title: str) -> Table:
     )
     if len(used) <= 6:
         for n in used:
-            table.add_column(n.replace("_", " "), no_wrap=True)
+            table.add_column(field_label(n, display), no_wrap=True)
         for it in items:
-            table.add_row(*[_fmt(getattr(it, n)) for n in used])
+            table.add_row(*[shown_value(n, getattr(it, n), display) for n in used])
         return table
     label = "name" if "name" in used else used[0]
     table.add_column("")
@@ -57,13 +63,33 @@ def _rows_table(items: tuple[object, ...], title: str) -> Table:
     for n in used:
         if n != label:
             table.add_row(
-                Text(n.replace("_", " "), style="bold"), *[_fmt(getattr(it, n)) for it in items]
+                Text(field_label(n, display), style="bold"),
+                *[shown_value(n, getattr(it, n), display) for it in items],
             )
     return table
 
 
-def preset_view(obj: object) -> Group:
-    """Every value of a preset, its sub-tables, and its words (name, note, source)."""
+def resistance_words(obj: object) -> str:
+    """A factor set's resistance as its users write it: ``FS 1.5`` under allowable stress
+    (the file keeps 1/FS so that CDR >= 1 passes in every set), ``φ 0.65`` otherwise."""
+    asd = getattr(obj, "method", "") == "asd"
+    return ", ".join(
+        f"{check} FS {1.0 / v:.3g}" if asd and v > 0 else f"{check} φ {v:.3g}"
+        for check, v in obj.resistance.items()
+    )
+
+
+def shown_value(name: str, value: object, display: Display) -> str:
+    """A preset's value in the display units when its name carries one."""
+    unit = field_unit(name)
+    if isinstance(value, float) and unit not in (None, "°"):
+        return f"{display.value(value, unit):.4g}"
+    return _fmt(value)
+
+
+def preset_view(obj: object, display: Display = SI) -> Group:
+    """Every value of a preset (labelled in words and the display units), its
+    sub-tables, and its words (name, note, source)."""
     parts: list[object] = []
     words = Text()
     for key in ("name", "note", "source"):
@@ -81,9 +107,11 @@ def preset_view(obj: object) -> Group:
         if f.name in WORDS:
             continue
         if isinstance(value, tuple) and value and dataclasses.is_dataclass(value[0]):
-            subs.append(_rows_table(value, f.name))
+            subs.append(_rows_table(value, f.name, display))
+        elif f.name == "resistance":
+            table.add_row(field_label(f.name, display), resistance_words(obj))
         else:
-            table.add_row(f.name, _fmt(value))
+            table.add_row(field_label(f.name, display), shown_value(f.name, value, display))
     parts.append(table)
     for sub in subs:
         parts.extend([Text(""), sub])
@@ -93,9 +121,10 @@ def preset_view(obj: object) -> Group:
 class PresetsScreen(Screen[None]):
     BINDINGS = [Binding("escape,q,p", "back", "Back")]
 
-    def __init__(self, presets: object) -> None:
+    def __init__(self, presets: object, display: Display = SI) -> None:
         super().__init__()
         self.presets = presets
+        self.units = display
         self.lookup: dict[str, object] = {}
 
     def compose(self) -> ComposeResult:
@@ -122,7 +151,7 @@ class PresetsScreen(Screen[None]):
     def _show(self, event: OptionList.OptionHighlighted) -> None:
         obj = self.lookup.get(event.option.id or "")
         if obj is not None:
-            self.query_one("#presets-view", Static).update(preset_view(obj))
+            self.query_one("#presets-view", Static).update(preset_view(obj, self.units))
 
     def action_back(self) -> None:
         self.dismiss(None)

@@ -15,7 +15,7 @@ from textual.widgets import DataTable, Footer, Static
 
 from screening.corridor.quantities import CorridorQuantities
 from screening.model.units import Display
-from screening.tui.corridor_tools import money, rates_path, reinforcement_words
+from screening.tui.corridor_tools import money, reinforcement_words
 from screening.tui.widgets.segment_quantities import placeholder_note
 from screening.tui.widgets.title_bar import CautionLine
 
@@ -99,10 +99,16 @@ class QuantitiesScreen(Screen[None]):
     BINDINGS = [Binding("escape,q,m", "back", "Back")]
 
     def __init__(
-        self, name: str, quantities: CorridorQuantities, display: Display, row: int = 0
+        self,
+        name: str,
+        quantities: CorridorQuantities,
+        display: Display,
+        row: int = 0,
+        rates_source: str = "shipped rates (presets/rates.toml)",
     ) -> None:
         super().__init__()
         self.corridor_name, self.q, self.units, self.row = name, quantities, display, row
+        self.rates_source = rates_source
 
     def compose(self) -> ComposeResult:
         n = len(self.q.segments)
@@ -114,7 +120,7 @@ class QuantitiesScreen(Screen[None]):
         yield Static(head, id="quantities-heading")
         yield Static(totals_table(self.q, self.units), id="quantities-totals")
         note = placeholder_note(self.q.rates)
-        note.append(f"\nrates from {rates_path()}", style="dim")
+        note.append(f"\n{self.rates_source}; currency {self.q.rates.currency}", style="dim")
         short = sum(1 for s in self.q.segments if s.short_grade)
         if short:
             note.append(

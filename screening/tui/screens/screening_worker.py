@@ -45,6 +45,8 @@ class ScreeningMixin:
 
     def start_screen(self) -> None:
         corridor = self.session.corridor
+        if not corridor.segments:  # nothing to screen: an empty corridor waits for its first
+            return
         self.screening = True
         self.query_one(ProgressStrip).begin(len(corridor.segments))
         self._screen_in_background(corridor)
@@ -80,6 +82,7 @@ class ScreeningMixin:
             return
         self.table.update_all_gradually(self.session)
         self.redraw_around()
+        self.refresh_editor()
         if self.last_screen_s is not None:
             self.say(f"screened {len(result):,} segments in {self.last_screen_s:.1f} s")
         self.screen_stale_rows()
@@ -123,6 +126,7 @@ class ScreeningMixin:
         if self.session.accept(corridor, rows, result):
             self.table.update_rows(rows, self.session)
             self.redraw_around()
+            self.refresh_editor()
             if not self.session.stale and self._edit_started is not None:
                 self.last_edit_ms = (time.perf_counter() - self._edit_started) * 1000.0
                 self._edit_started = None
@@ -136,6 +140,8 @@ class ScreeningMixin:
     @property
     def results_pending(self) -> bool:
         """Some row has no up-to-date result yet (a save waits for them)."""
+        if not self.session.corridor.segments:
+            return self.screening
         return (
             self.screening
             or self.rows_running

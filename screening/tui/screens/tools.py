@@ -10,21 +10,20 @@ from __future__ import annotations
 import time
 from pathlib import Path
 
-from rich.text import Text
 from textual import work
 from textual.worker import get_current_worker
 
 from screening.corridor.diff import CorridorDiff
-from screening.corridor.quantities import corridor_quantities
+from screening.corridor.quantities import corridor_quantities, rates_words
 from screening.model.errors import WallscreenError
 from screening.model.units import Display
 from screening.report import write_report
-from screening.tui.cells import COLUMNS, column_heading
+from screening.tui.config import remember_units
 from screening.tui.corridor_tools import (
     check_corridor_path,
     compare_with,
     default_report_path,
-    shipped_rates,
+    rates_for,
 )
 from screening.tui.screens.prompt import PromptScreen
 
@@ -51,6 +50,7 @@ class ToolsMixin:
     def action_toggle_units(self) -> None:
         s = self.session
         s.display = Display("us" if s.display.system == "si" else "si")
+        remember_units(s.display.system)
         self.show_units()
         self.say(
             "showing US customary units (ft, psf, pcf, kip/ft); the file stays in SI"
@@ -59,13 +59,15 @@ class ToolsMixin:
         )
 
     def show_units(self) -> None:
-        """Redraw the table headings, every row and the summary in the session's units."""
+        """Redraw the table headings, every row, the summary and the editor in the
+        session's units."""
         table = self.table
-        for key, heading, _ in COLUMNS:
-            table.columns[key].label = Text(column_heading(key, heading, self.session.display))
-        table.refresh()
+        table.relabel(self.session)
         table.update_all_gradually(self.session)  # visible rows first: no freeze at 5,000
         self.redraw_around()
+        if self.editor.display and self.session.corridor.segments:
+            self.editor.load(self.session.corridor.segments[self.cursor], self.session.display)
+            self.editor.show_outcome(self.session, self.cursor)
 
     # ------------------------------------------------------------------ quantities
 
@@ -76,11 +78,12 @@ class ToolsMixin:
 
         s = self.session
         try:
-            q = corridor_quantities(s.corridor, s.result, shipped_rates())
+            q = corridor_quantities(s.corridor, s.result, rates_for(s.corridor, s.rates_override))
         except WallscreenError as err:
             self.app.notify(str(err), title="No quantities", severity="error", timeout=10)
             return
-        self.app.push_screen(QuantitiesScreen(s.corridor.name, q, s.display, self.cursor))
+        where = rates_words(s.corridor, s.rates_path)
+        self.app.push_screen(QuantitiesScreen(s.corridor.name, q, s.display, self.cursor, where))
 
     # ------------------------------------------------------------------ sensitivity
 
@@ -125,7 +128,17 @@ class ToolsMixin:
     def _export(self, corridor, result, path: Path, units: str, sensitivity: bool) -> None:
         started = time.perf_counter()
         try:
-            out = write_report(corridor, result, path, units=units, sensitivity=sensitivity)
+            s = self.session
+            out = write_report(
+                corridor,
+                result,
+                path,
+                units=units,
+                sensitivity=sensitivity,
+                rates=rates_for(corridor, s.rates_override),
+                source=s.path if not s.dirty else None,
+                rates_source=rates_words(corridor, s.rates_path),
+            )
         except Exception as err:  # shown, never a traceback; the user's files are untouched
             self.app.call_from_thread(self._export_failed, _problem(err))
             return
@@ -171,6 +184,7 @@ class ToolsMixin:
                 "with what is open now (unsaved edits included):",
                 current,
                 check_corridor_path,
+                paths=(".toml",),
             ),
             chosen,
         )

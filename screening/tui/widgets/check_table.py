@@ -20,28 +20,28 @@ def checks_table(res: SegmentResult, display: Display = SI) -> Table:
     """A Rich table of every check (governing case of each), weakest marked; demand and
     capacity in the display units (CDRs are ratios: the same in any units)."""
     table = Table(expand=True, box=None, header_style="bold", pad_edge=False)
-    for heading, justify in (
-        ("Check", "left"),
-        ("Case", "left"),
-        ("Demand", "right"),
-        ("Capacity", "right"),
-        ("Unit", "left"),
-        ("CDR", "right"),
-        ("", "left"),
+    for heading, justify, least in (
+        ("Check", "left", 14),
+        ("CDR", "right", 4),
+        ("", "left", 7),
+        ("Demand", "right", 6),
+        ("Capacity", "right", 8),
+        ("Unit", "left", 4),
+        ("Case", "left", 4),
     ):
-        table.add_column(heading, justify=justify, no_wrap=True)
+        table.add_column(heading, justify=justify, no_wrap=True, min_width=least)
     for name, check in res.checks.items():
         if check.demand == 0.0 and check.capacity == 0.0 and check.passes:
             # Nothing to check here (no seismic load, no circle of this family in range):
             # dashes and "n/a", not a capped CDR of 99 that reads like a result.
             table.add_row(
                 Text("  " + name, style="dim"),
-                Text(""),
-                "-",
-                "-",
-                Text(""),
                 Text("-", style="dim"),
                 Text("n/a", style="dim"),  # the reason is in the check's detail
+                "-",
+                "-",
+                Text(""),
+                Text(""),
             )
             continue
         governs = name == res.governing
@@ -49,12 +49,12 @@ def checks_table(res: SegmentResult, display: Display = SI) -> Table:
         style = "bold red" if not check.passes else ("bold" if governs else "")
         table.add_row(
             Text(("▸ " if governs else "  ") + name, style=style),
-            Text(check.case),
+            Text(cdr_text(check.cdr), style=style),
+            Text(status, style=style),
             _num(display.value(check.demand, check.unit)),
             _num(display.value(check.capacity, check.unit)),
             Text(display.label(check.unit), style="dim"),
-            Text(cdr_text(check.cdr), style=style),
-            Text(status, style=style),
+            Text(check.case, overflow="ellipsis"),
         )
     return table
 

@@ -1,4 +1,10 @@
-"""The corridor table: one row per segment, inputs on the left, the screen on the right."""
+"""The corridor table: a line per wall (its summary) and a line per segment under it.
+
+What is shown and in what order comes from a :class:`~screening.tui.view.View`; the table
+keeps the map from its lines to segment indices both ways. Id, Verdict and CDR are
+frozen on the left, so they stay in sight however narrow the terminal or far the table is
+scrolled sideways.
+"""
 
 from __future__ import annotations
 
@@ -10,8 +16,9 @@ from textual.binding import Binding
 from textual.coordinate import Coordinate
 from textual.widgets import DataTable
 
-from screening.tui.cells import COLUMNS, row_cells
+from screening.tui.cells import COLUMNS, FROZEN, column_heading, id_width, row_cells, wall_cells
 from screening.tui.session import Session
+from screening.tui.view import View, ViewRow
 
 MARK_STYLE = "reverse"
 BATCH = 100
@@ -19,20 +26,45 @@ BATCH = 100
 
 
 class CorridorTable(DataTable):
-    """Segments in corridor order; the row index is the segment's index."""
+    """Walls and their segments; ``lines[k]`` says what line ``k`` shows."""
 
     BINDINGS = [Binding("enter", "select_cursor", "Detail", tooltip="Open the segment's detail")]
 
     def __init__(self, **kwargs: object) -> None:
         super().__init__(cursor_type="row", zebra_stripes=True, **kwargs)
+        self.fixed_columns = FROZEN
         self.marked: set[int] = set()
+        """Segment indices of the marked range."""
+        self.lines: list[ViewRow] = []
+        self.position: dict[int, int] = {}
+        """Segment index -> line."""
+        self.wall_line: dict[str, int] = {}
+        self.view = View()
         self._generation = 0
+        self._id_width = 0
+        self._made: dict[int, tuple[tuple, object, list[Text]]] = {}
+        """Segment -> (what its cells were made from, the screen, the cells)."""
         self.updating = False
         """A gradual redraw of every row is under way."""
 
-    def on_mount(self) -> None:
-        for key, heading, width in COLUMNS:
-            self.add_column(heading, key=key, width=width)
+    def make_columns(self, session: Session, width: int | None = None) -> bool:
+        """(Re)make the columns for the table's width and the session's units; True when
+        they changed (the rows must then be loaded again)."""
+        want = id_width(self.size.width if width is None else width)
+        if want == self._id_width and self.columns:
+            return False
+        self._id_width = want
+        self.clear(columns=True)
+        for col in COLUMNS:
+            label = column_heading(col.key, session.display)
+            self.add_column(label, key=col.key, width=want if col.key == "id" else col.width)
+        return True
+
+    def relabel(self, session: Session) -> None:
+        """Headings in the session's units."""
+        for col in COLUMNS:
+            self.columns[col.key].label = Text(column_heading(col.key, session.display))
+        self.refresh()
 
     def _update_dimensions(self, new_rows: Iterable[object]) -> None:
         """Every column has a fixed width and every row one line, so there is nothing to
@@ -41,50 +73,132 @@ class CorridorTable(DataTable):
         Overrides a private method of Textual 8's DataTable (pinned <9 in pyproject)."""
         super()._update_dimensions(())
 
-    def _cells(self, session: Session, i: int) -> list[Text]:
+    # ------------------------------------------------------------------ lines
+
+    def segment_at(self, line: int | None = None) -> int | None:
+        """Segment index of a line (the cursor's by default); None on a wall's line."""
+        line = self.cursor_row if line is None else line
+        if 0 <= line < len(self.lines):
+            return self.lines[line].index
+        return None
+
+    def wall_at(self, line: int | None = None) -> str | None:
+        line = self.cursor_row if line is None else line
+        return self.lines[line].wall if 0 <= line < len(self.lines) else None
+
+    def members(self, session: Session, wall: str) -> list[int]:
+        return [i for i, s in enumerate(session.corridor.segments) if s.wall == wall]
+
+    def _cells(self, session: Session, line: ViewRow, problems: set[str]) -> list[Text]:
+        if line.index is None:
+            members = self.members(session, line.wall)
+            shown = sum(1 for r in self.lines if r.wall == line.wall and r.index is not None)
+            folded = line.wall in self.view.collapsed
+            return wall_cells(
+                session.corridor,
+                session.result,
+                line.wall,
+                members,
+                folded=folded,
+                stale=session.stale,
+                display=session.display,
+                shown=None if folded or not self.view.filtered else shown,
+                width=self._id_width,
+            )
+        i = line.index
+        seg = session.corridor.segments[i]
+        pending, quick = session.pending(i), session.provisional(i)
+        key = (
+            id(seg),
+            id(session.result),
+            pending,
+            id(quick[0]) if quick else None,
+            session.display.system,
+            seg.id in problems,
+            self.view.grouped,
+            i in self.marked,
+        )
+        hit = self._made.get(i)
+        if hit is not None and hit[0] == key and hit[1] is seg:
+            return hit[2]  # a view change redraws lines whose inputs and screen are the same
         cells = row_cells(
-            session.corridor.segments[i],
+            seg,
             session.result,
             i,
-            session.pending(i),
-            session.provisional(i),
+            pending,
+            quick,
             session.display,
+            problem=seg.id in problems,
+            indent=self.view.grouped,
         )
         if i in self.marked:
             cells[0] = Text(cells[0].plain, style=f"bold {MARK_STYLE}")
+        self._made[i] = (key, seg, cells)
         return cells
 
-    def load(self, session: Session, cursor: int = 0) -> None:
-        """Rebuild every row (after segments were added, removed or reordered)."""
+    def load(self, session: Session, view: View, segment: int | None = 0) -> None:
+        """Rebuild every line for ``view``; the cursor goes to ``segment`` (or its wall's
+        line when it is folded or filtered out)."""
         self._generation += 1  # any gradual update of the old rows stops
         self.updating = False
+        self.view = view
+        self.make_columns(session)
         self.clear(columns=False)
-        n = len(session.corridor.segments)
-        for i in range(n):
-            self.add_row(*self._cells(session, i), key=str(i))
-        if n:
-            self.move_cursor(row=max(0, min(cursor, n - 1)), animate=False)
+        self.lines = view.rows(session.corridor, session.result)
+        self.position = {r.index: k for k, r in enumerate(self.lines) if r.index is not None}
+        self.wall_line = {r.wall: k for k, r in enumerate(self.lines) if r.index is None}
+        problems = session.problem_ids()
+        for k, line in enumerate(self.lines):
+            self.add_row(*self._cells(session, line, problems), key=str(k))
+        self.move_to(session, segment)
+
+    def move_to(self, session: Session, segment: int | None) -> None:
+        if not self.lines:
+            return
+        line = 0
+        if segment is not None and segment in self.position:
+            line = self.position[segment]
+        elif segment is not None and 0 <= segment < len(session.corridor.segments):
+            wall = session.corridor.segments[segment].wall
+            line = self.wall_line.get(wall, 0)
+        self.move_cursor(row=line, animate=False)
 
     def update_rows(self, rows: Iterable[int], session: Session) -> None:
-        """Redraw ``rows`` in place (after an edit or a finished screen)."""
+        """Redraw segments ``rows`` in place, and the lines of their walls."""
+        problems = session.problem_ids()
+        walls: set[str] = set()
         for i in rows:
-            for c, cell in enumerate(self._cells(session, i)):
-                self.update_cell_at(Coordinate(i, c), cell)
+            if i >= len(session.corridor.segments):
+                continue
+            walls.add(session.corridor.segments[i].wall)
+            line = self.position.get(i)
+            if line is not None:
+                self._draw(line, session, problems)
+        for wall in walls:
+            if wall in self.wall_line:
+                self._draw(self.wall_line[wall], session, problems)
+
+    def _draw(self, line: int, session: Session, problems: set[str]) -> None:
+        for c, cell in enumerate(self._cells(session, self.lines[line], problems)):
+            self.update_cell_at(Coordinate(line, c), cell)
 
     def update_all_gradually(self, session: Session) -> None:
-        """Redraw every row after a whole screen, a batch per event-loop turn, the rows on
-        screen first: 5,000 rows at once would hold the interface for about a second."""
+        """Redraw every line after a whole screen, a batch per event-loop turn, the lines
+        on screen first: 5,000 lines at once would hold the interface for about a second."""
         self._generation += 1
         generation = self._generation
-        n = len(session.corridor.segments)
+        n = len(self.lines)
         top = max(self.scroll_offset.y - 1, 0)
         seen = list(range(top, min(top + self.size.height + 2, n)))
-        order = seen + [i for i in range(n) if i < top or i >= top + len(seen)]
+        order = seen + [k for k in range(n) if k < top or k >= top + len(seen)]
+        segments = session.corridor.segments
+        problems = session.problem_ids()
 
         def batch(start: int) -> None:
-            if generation != self._generation or n != len(session.corridor.segments):
+            if generation != self._generation or segments is not session.corridor.segments:
                 return
-            self.update_rows(order[start : start + BATCH], session)
+            for line in order[start : start + BATCH]:
+                self._draw(line, session, problems)
             self.updating = start + BATCH < len(order)
             if self.updating:
                 self.set_timer(0.005, partial(batch, start + BATCH))  # let other events run
@@ -92,9 +206,12 @@ class CorridorTable(DataTable):
         batch(0)
 
     def set_marked(self, rows: set[int], session: Session) -> None:
-        """Show ``rows`` as the marked range (the id cell in reverse)."""
+        """Show segments ``rows`` as the marked range (the id cell in reverse)."""
         changed = rows ^ self.marked
         self.marked = set(rows)
+        problems = session.problem_ids()
         for i in changed:
-            if i < len(session.corridor.segments):
-                self.update_cell_at(Coordinate(i, 0), self._cells(session, i)[0])
+            line = self.position.get(i)
+            if line is not None and i < len(session.corridor.segments):
+                cell = self._cells(session, self.lines[line], problems)[0]
+                self.update_cell_at(Coordinate(line, 0), cell)

@@ -7,22 +7,25 @@ from textual.widget import Widget
 
 from screening.engine.result import SegmentResult
 from screening.model import Segment
-from screening.tui.sketch import draw_section
+from screening.model.units import Display
+from screening.tui.sketch import SI, draw_section
 
 
 class CrossSection(Widget):
     """Facing, layers to L, line of maximum tension, ground, surcharges, embedment."""
 
-    def __init__(self, segment: Segment, result: SegmentResult, **kwargs: object) -> None:
+    def __init__(
+        self, segment: Segment, result: SegmentResult, display: Display = SI, **kwargs: object
+    ) -> None:
         super().__init__(**kwargs)
-        self.segment, self.result = segment, result
+        self.segment, self.result, self.units = segment, result, display
 
-    def show(self, segment: Segment, result: SegmentResult) -> None:
-        self.segment, self.result = segment, result
+    def show(self, segment: Segment, result: SegmentResult, display: Display = SI) -> None:
+        self.segment, self.result, self.units = segment, result, display
         self.refresh()
 
     def render(self) -> Text:
         size = self.content_size
         if size.width < 20 or size.height < 8:
             return Text("(widen the terminal to see the sketch)", style="dim")
-        return draw_section(self.segment, self.result, size.width, size.height)
+        return draw_section(self.segment, self.result, size.width, size.height, self.units)

@@ -1,9 +1,10 @@
-"""The long section: exposed heights along the chainage, each column in its verdict.
+"""The long section of one wall (the cursor's): exposed heights along the chainage, each
+column in its verdict.
 
-Columns are bars of block characters (eight steps per row) scaled to the tallest wall;
-under them a line of verdict marks (readable without colour) and a chainage axis with a
-caret under the cursor's segment. Where walls overlap in chainage (left and right
-sides) a column shows the tallest height and the worst verdict.
+Columns are bars of block characters (eight steps per row) scaled to the wall's tallest
+point; under them a line of verdict marks (readable without colour) and a chainage axis
+with a caret under the cursor's segment and the wall's name. Walls at the same chainage
+(left and right sides) are never merged: each has its own section.
 """
 
 from __future__ import annotations
@@ -14,7 +15,8 @@ from textual.widget import Widget
 
 from screening.engine.result import CorridorResult
 from screening.model import Corridor
-from screening.tui.cells import VERDICT_MARK, VERDICT_STYLE
+from screening.model.units import Display
+from screening.tui.cells import SI, VERDICT_MARK, VERDICT_STYLE
 
 BLOCKS = " ▁▂▃▄▅▆▇█"
 CURSOR_STYLE = "bold #e8e4dc"
@@ -70,12 +72,21 @@ def section_text(
     width: int,
     height: int,
     stale: set[int] | frozenset[int] = frozenset(),
+    display: Display = SI,
 ) -> Text:
-    """The strip as text, ``width`` x ``height`` cells (at least 4 rows)."""
-    segs = corridor.segments
-    bar_rows = max(height - 3, 1)
-    if not segs or width < 10:
+    """The strip of the cursor's wall as text, ``width`` x ``height`` cells (>= 4 rows)."""
+    if not corridor.segments or width < 10 or not 0 <= cursor < len(corridor.segments):
         return Text("")
+    wall = corridor.segments[cursor].wall
+    rows = [i for i, s in enumerate(corridor.segments) if s.wall == wall]
+    segs = [corridor.segments[i] for i in rows]
+    cursor = rows.index(cursor)
+    if result is not None and len(result) == len(corridor.segments):
+        verdicts = [result.verdict[i] for i in rows]
+    else:
+        verdicts = None
+    stale = {k for k, i in enumerate(rows) if i in stale}
+    bar_rows = max(height - 3, 1)
     start = np.array([s.chainage_start_m for s in segs])
     end = np.array([s.chainage_end_m for s in segs])
     h0 = np.array([s.height_start_m for s in segs])
@@ -93,10 +104,8 @@ def section_text(
     h = np.where(inside, h0[:, None] + t * (h1 - h0)[:, None], 0.0)
     col_h = h.max(axis=0)
     occupied = inside.any(axis=0)
-    if result is not None and len(result) == len(segs):
-        rank = np.array(
-            [-1 if i in stale else RANK.get(v, 0) for i, v in enumerate(result.verdict)]
-        )
+    if verdicts is not None:
+        rank = np.array([-1 if i in stale else RANK.get(v, 0) for i, v in enumerate(verdicts)])
         col_rank = np.where(inside, rank[:, None], -1).max(axis=0)
     else:
         col_rank = np.full(width, -1)
@@ -138,11 +147,14 @@ def section_text(
     axis = [" "] * width
     for c in np.flatnonzero(gap):
         axis[c] = "┆"
+    m, u = display.value, display.label("m")
     for c, chainage in starts:
-        label = f"{chainage:.0f}"
+        label = f"{m(chainage, 'm'):.0f}"
         if all(ch == " " for ch in axis[c : c + len(label) + 1]) and c + len(label) <= width:
             axis[c : c + len(label)] = list(label)
-    tail = f"{float(end.max()):.0f} m · max {top:.1f} m"
+    tail = f"{m(float(end.max()), 'm'):.0f} {u} · {wall} · max exposed {m(top, 'm'):.1f} {u}"
+    if len(tail) > width - 8:
+        tail = f"{m(float(end.max()), 'm'):.0f} {u} · max {m(top, 'm'):.1f} {u}"
     if all(ch == " " for ch in axis[width - len(tail) - 1 :]):
         axis[width - len(tail) :] = list(tail)
     out.append("".join(axis), style="dim")
@@ -160,6 +172,7 @@ class LongSection(Widget):
         self._result: CorridorResult | None = None
         self._cursor = 0
         self._stale: set[int] | frozenset[int] = frozenset()
+        self._display = SI
 
     def show(
         self,
@@ -167,9 +180,11 @@ class LongSection(Widget):
         result: CorridorResult | None,
         cursor: int,
         stale: set[int] | frozenset[int] = frozenset(),
+        display: Display = SI,
     ) -> None:
         self._corridor, self._result, self._cursor = corridor, result, cursor
         self._stale = frozenset(stale)
+        self._display = display
         self.refresh()
 
     def render(self) -> Text:
@@ -182,4 +197,5 @@ class LongSection(Widget):
             self.content_size.width,
             self.content_size.height,
             self._stale,
+            self._display,
         )

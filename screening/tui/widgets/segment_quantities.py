@@ -16,8 +16,8 @@ def placeholder_note(rates: Rates) -> Text:
     """Says plainly that the cost rests on invented rates until the user replaces them."""
     if rates.placeholder:
         return Text(
-            "rough cost at PLACEHOLDER rates (presets/rates.toml): replace them before "
-            "showing a cost to anyone",
+            "rough cost at PLACEHOLDER rates: put your own in a [rates] table of the corridor "
+            "file (or --rates FILE) before showing a cost to anyone",
             style="italic yellow",
         )
     return Text(f"rough cost in {rates.currency or 'the rates file currency'}", style="dim")
@@ -36,7 +36,7 @@ def segment_quantities_table(q: SegmentQuantities, rates: Rates, display: Displa
         reinf += "  (a layer has no grade that passes: counted at the heaviest)"
     table.add_row(f"Reinforcement ({q.layers} layers)", reinf)
     items = ", ".join(f"{k} {money(v)}" for k, v in q.cost.items() if v)
-    table.add_row("Rough cost", Text(f"{money(q.cost_total)}  ({items})"))
+    table.add_row(f"Rough cost ({rates.currency})", Text(f"{money(q.cost_total)}  ({items})"))
     return table
 
 

@@ -7,7 +7,7 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 
 from screening.model.errors import WallscreenError
-from screening.tui.corridor_tools import segment_quantities, shipped_rates
+from screening.tui.corridor_tools import rates_for, segment_quantities
 from screening.tui.widgets.segment_quantities import SegmentQuantitiesPanel
 from screening.tui.widgets.sensitivity_list import SensitivityList
 
@@ -28,8 +28,8 @@ class SegmentTools(VerticalScroll):
             return
         c, r, d = session.corridor, session.result, session.display
         try:
-            q = segment_quantities(c, r, row)
-            panel.show(q, shipped_rates(), d)
+            q = segment_quantities(c, r, row, session.rates_override)
+            panel.show(q, rates_for(c, session.rates_override), d)
         except WallscreenError as err:
             panel.show(None, None, d)
             panel.update(Text(f"quantities could not be worked out: {err}", style="red"))

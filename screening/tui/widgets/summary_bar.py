@@ -19,5 +19,6 @@ class SummaryBar(Static):
         result: CorridorResult | None,
         stale: set[int] | frozenset[int] = frozenset(),
         display: Display = SI,
+        problems: int = 0,
     ) -> None:
-        self.update(summary_text(corridor, result, stale, display))
+        self.update(summary_text(corridor, result, stale, display, problems))

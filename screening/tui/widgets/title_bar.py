@@ -10,6 +10,8 @@ from textual.widgets import Static
 CAUTION = (
     "Screening only, not a design: verify with a licensed engineer and the governing local code."
 )
+SHORT_CAUTION = "Screening only, not a design: a licensed engineer and the local code decide."
+"""The same caution in 80 columns."""
 
 
 class TitleBar(Static):
@@ -32,3 +34,7 @@ class CautionLine(Static):
 
     def on_mount(self) -> None:
         self.update(Text("⚠ " + CAUTION))
+
+    def on_resize(self) -> None:
+        fits = self.content_size.width >= len(CAUTION) + 2
+        self.update(Text("⚠ " + (CAUTION if fits else SHORT_CAUTION)))
