@@ -10,8 +10,8 @@ from screening.report import tables
 from screening.report.assumptions import assumptions
 from screening.report.data import ReportData
 from screening.report.figures import VERDICT_COLOUR, cross_section_png, long_section_png, walls
-from screening.report.mechanism_figure import mechanism_figure_html
 from screening.report.handover import handover, inputs_table
+from screening.report.mechanism_figure import mechanism_figure_html
 from screening.report.tables import Table
 
 STYLE = """

@@ -96,7 +96,7 @@ async def test_runs_after_the_screen_with_progress_and_shows_in_detail(small_fil
         assert saved.count("mechanism_factor = ") == 3
 
         row = flagged_rows[0]
-        app.corridor_screen.table.move_cursor(row=row)
+        app.corridor_screen.table.move_to(app.corridor_screen.session, row)
         await pilot.press("enter")
         await pilot.pause()
         assert isinstance(app.screen, DetailScreen)

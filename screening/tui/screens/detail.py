@@ -50,8 +50,13 @@ def facts(seg: Segment, res: SegmentResult, display: Display = SI) -> Text:
     return Text(
         f"exposed {f(res.exposed_height_m, 'm')}  + embedment {f(res.embedment_m, 'm')}  = "
         f"design height Hd {f(res.design_height_m, 'm')}\n"
-        f"L {f(res.length_m, 'm', 1)} set by {res.length_set_by} (rule of thumb "
-        f"{f(res.rule_length_m, 'm', 1)})  ·  L/Hd "
+        f"L {f(res.length_m, 'm', 1)} set by {res.length_set_by}"
+        + (
+            ""
+            if res.length_set_by == "rule of thumb"
+            else f" (rule of thumb {f(res.rule_length_m, 'm', 1)})"
+        )
+        + "  ·  L/Hd "
         f"{res.length_ratio:.2f}  ·  traffic {traffic_text(seg.traffic, display)} → "
         f"{f(res.traffic_kpa, 'kPa')}"
         f"  ·  fill {getattr(seg.fill, 'id', None) or 'inline'}  ·  "

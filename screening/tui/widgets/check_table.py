@@ -23,10 +23,10 @@ def checks_table(res: SegmentResult, display: Display = SI) -> Table:
     for heading, justify, least in (
         ("Check", "left", 14),
         ("CDR", "right", 4),
-        ("", "left", 7),
-        ("Demand", "right", 6),
+        ("", "left", 1),
+        ("Demand", "right", 7),
         ("Capacity", "right", 8),
-        ("Unit", "left", 4),
+        ("Unit", "left", 6),
         ("Case", "left", 4),
     ):
         table.add_column(heading, justify=justify, no_wrap=True, min_width=least)
@@ -45,7 +45,7 @@ def checks_table(res: SegmentResult, display: Display = SI) -> Table:
             )
             continue
         governs = name == res.governing
-        status = "fails" if not check.passes else ("governs" if governs else "")
+        status = "✗" if not check.passes else ""  # failing: ✗ and red; governing: ▸ and bold
         style = "bold red" if not check.passes else ("bold" if governs else "")
         table.add_row(
             Text(("▸ " if governs else "  ") + name, style=style),
