@@ -35,9 +35,9 @@ fail() {
     exit 1
 }
 
-# wait until the screen shows a pattern (extended regex), up to 15 s
+# wait until the screen shows a pattern (extended regex), up to 45 s (a loaded CI machine)
 wait_for() {
-    for _ in $(seq 150); do
+    for _ in $(seq 450); do
         $T capture-pane -p -t app 2>/dev/null | grep -qE -- "$1" && return 0
         sleep 0.1
     done
