@@ -101,8 +101,12 @@ class ScreenContext:
         return self.a.cases
 
     def take(self, rows: IntArray) -> ScreenContext:
-        """The same context for the segments ``rows`` only (for a costly check on a few)."""
-        return take_rows(self, np.asarray(rows, dtype=np.int64), self.n)
+        """The same context for the segments ``rows`` only (for a costly check on a few);
+        the context itself when ``rows`` are all its rows in order (it is frozen)."""
+        rows = np.asarray(rows, dtype=np.int64)
+        if rows.size == self.n and np.array_equal(rows, np.arange(self.n)):
+            return self
+        return take_rows(self, rows, self.n)
 
 
 def take_rows(obj, rows: IntArray, n: int):

@@ -166,7 +166,30 @@ UNITS = {
 
 def seismic_checks(ctx: ScreenContext, length_m: FloatArray) -> dict[str, tuple]:
     """Extreme Event I checks at L: {sub-check: (demand, capacity, cdr)}, each (n,), plus
-    ``"kh"`` (n,) and ``"valid"`` (n,) (M-O has a solution). Segments with kh0 = 0 get CDR_CAP."""
+    ``"kh"`` (n,) and ``"valid"`` (n,) (M-O has a solution). Segments with kh0 = 0 get CDR_CAP
+    (and nothing is computed for them: sizing asks for this check at every trial length)."""
+    n = ctx.n
+    length = np.asarray(length_m, dtype=np.float64)
+    rows = np.flatnonzero(ctx.a.seismic_kh > 0)
+    if rows.size == n:
+        return _shaking_checks(ctx, length)
+    out: dict[str, tuple] = {
+        key: (np.zeros(n), np.zeros(n), np.full(n, CDR_CAP)) for key in SUBCHECKS
+    }
+    valid = np.ones(n, dtype=bool)
+    if rows.size:
+        sub = _shaking_checks(ctx.take(rows), length[rows])
+        for key in SUBCHECKS:
+            for whole, part in zip(out[key], sub[key], strict=True):
+                whole[rows] = part
+        valid[rows] = sub["valid"]
+    out["kh"] = wall_kh(ctx.a.seismic_kh, ~ctx.a.abutment)
+    out["valid"] = valid
+    return out
+
+
+def _shaking_checks(ctx: ScreenContext, length_m: FloatArray) -> dict[str, tuple]:
+    """:func:`seismic_checks` of a context whose segments all have kh0 > 0."""
     a, g = ctx.a, ctx.geom
     n = ctx.n
     big_h = g.design_height_m

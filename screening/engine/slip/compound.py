@@ -208,6 +208,16 @@ _MEMOS: dict[tuple[int, str], tuple[weakref.ref, _Memo]] = {}
 context and its subsets)."""
 
 
+def _owner(ctx: ScreenContext, tag: str) -> tuple[object, str, bool]:
+    """The object a screen's memo of ``tag`` is keyed by, the key's tag, and whether rows
+    can be matched by segment id (ids unique)."""
+    unique = np.unique(np.asarray(ctx.a.ids, dtype=str)).size == ctx.n
+    if not unique:
+        # Ids repeat (a corridor built in code): rows cannot be matched, so no sharing.
+        return ctx, f"{tag}-own", False
+    return ctx.a.cases, tag, True
+
+
 def shared_search(
     ctx: ScreenContext, length_m: FloatArray, tag: str = "static", runner=_static_run
 ) -> dict[str, np.ndarray]:
@@ -219,11 +229,7 @@ def shared_search(
     """
     for key in [k for k, (ref, _) in _MEMOS.items() if ref() is None]:
         del _MEMOS[key]
-    owner = ctx.a.cases
-    unique = np.unique(np.asarray(ctx.a.ids, dtype=str)).size == ctx.n
-    if not unique:
-        # Ids repeat (a corridor built in code): rows cannot be matched, so no sharing.
-        owner, tag = ctx, f"{tag}-own"
+    owner, tag, unique = _owner(ctx, tag)
     entry = _MEMOS.get((id(owner), tag))
     rows = None
     if entry is not None and entry[0]() is owner:

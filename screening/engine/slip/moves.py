@@ -15,7 +15,21 @@ MOVE_SETS = {26: _MOVES, 14: _CORNER_MOVES, 6: _AXIS_MOVES}
 """The pattern search's neighbourhoods by size (SearchDensity.moves)."""
 
 
+_TABLES: dict[bytes, tuple[np.ndarray, np.ndarray]] = {}
+"""move_tables by move set (three sets exist; every search asked for them anew)."""
+
+
 def move_tables(moves: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """:func:`_move_tables`, computed once per move set (the arrays are read-only)."""
+    key = np.ascontiguousarray(moves, dtype=np.float64).tobytes()
+    if key not in _TABLES:
+        overlap, index = _move_tables(moves)
+        overlap.flags.writeable = index.flags.writeable = False
+        _TABLES[key] = (overlap, index)
+    return _TABLES[key]
+
+
+def _move_tables(moves: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """For a set of pattern moves (M, 3): ``overlap`` (M, M), True where move j' from the
     point reached by move j0 lands on a point of j0's own neighbourhood (or its centre), and
     ``index`` (27,), the move with given components (ternary code), -1 for the centre or a
