@@ -276,6 +276,20 @@ def _refine(
     cgeo = np.empty((n_moves, 4))
     last = np.empty(k, dtype=np.int64)
     unclipped = np.zeros(k, dtype=np.bool_)
+    # Every point a segment's starts have evaluated, by its exact bits: starts that meet
+    # (a free start and a family's own, two starts in one basin) evaluate the same points
+    # again with other histories; the same point gives the same bits, so it is looked up.
+    size = 16
+    while size < 2 * rounds * k * n_moves:
+        size *= 2
+    seen_key = np.empty((size, 3), dtype=np.int64)
+    seen_f = np.empty(size)
+    seen_cls = np.empty(size, dtype=np.int64)
+    seen_row = np.full(size, -1, dtype=np.int64)
+    bits = cand.view(np.int64)
+    slot = np.empty(n_moves, dtype=np.int64)
+    cached = np.empty(n_moves, dtype=np.bool_)
+    skip_or_cached = np.empty(n_moves, dtype=np.bool_)
     for i in range(bp.shape[0]):
         last[:] = -1
         for _ in range(rounds):
@@ -325,12 +339,35 @@ def _refine(
                     if last[s] >= 0 and overlap[last[s], m] and unclipped[s]:
                         known = True
                     skip[m] = known
+                    cached[m] = False
+                    if not known:
+                        b0, b1, b2 = bits[s, m, 0], bits[s, m, 1], bits[s, m, 2]
+                        h = (b0 ^ (b0 >> 29) ^ (b1 >> 5) ^ (b1 >> 33) ^ (b2 >> 11)) & (size - 1)
+                        while seen_row[h] == i:
+                            if (
+                                seen_key[h, 0] == b0
+                                and seen_key[h, 1] == b1
+                                and seen_key[h, 2] == b2
+                            ):
+                                cached[m] = True
+                                break
+                            h = (h + 1) & (size - 1)
+                        slot[m] = h
+                    skip_or_cached[m] = known or cached[m]
                 _row(
-                    sec, soil, lay, i, cand[s], skip, counts, fracs, kh[i], tol, max_it, work,
-                    cf[s], cok, ccls[s], cgeo,
+                    sec, soil, lay, i, cand[s], skip_or_cached, counts, fracs, kh[i], tol,
+                    max_it, work, cf[s], cok, ccls[s], cgeo,
                 )  # fmt: skip
-                for m in range(n_moves):  # search.settled
-                    cf[s, m] = np.rint(cf[s, m] * settle) / settle
+                for m in range(n_moves):
+                    if cached[m]:
+                        cf[s, m], ccls[s, m] = seen_f[slot[m]], seen_cls[slot[m]]
+                        continue
+                    cf[s, m] = np.rint(cf[s, m] * settle) / settle  # search.settled
+                    if not skip[m]:
+                        h = slot[m]
+                        seen_row[h], seen_f[h], seen_cls[h] = i, cf[s, m], ccls[s, m]
+                        for d in range(3):
+                            seen_key[h, d] = bits[s, m, d]
             # Each family's best so far (search._keep_family_best: the first of the least).
             for s in range(k):
                 for m in range(n_moves):
