@@ -87,7 +87,7 @@ def compound_check(
     to be near-critical (the same segments at other lengths; NaN where none); rows with any
     are refined from them with :data:`WARM` instead of a full search.
     """
-    unique, inverse = _distinct_rows(inp, kh, warm)
+    unique, inverse = _distinct_rows(inp, kh, warm) if inp.n > 1 else (np.zeros(1), None)
     if unique.size < inp.n:
         # Equal cross-sections (a profile gives many) are searched once.
         pick = lambda a: None if a is None else np.asarray(a)[unique]  # noqa: E731
@@ -245,7 +245,12 @@ def _global_seeds(inp: WallSlipInput) -> FloatArray:
 
 
 def _take(obj, pick):
-    """A slip dataclass restricted to rows ``pick`` (array fields with a leading row axis)."""
+    """A slip dataclass restricted to rows ``pick`` (array fields with a leading row axis);
+    the object itself when ``pick`` is every row in order (the dataclasses are frozen)."""
+    pick = np.asarray(pick)
+    n = next((v.shape[0] for v in vars(obj).values() if isinstance(v, np.ndarray)), -1)
+    if pick.dtype != bool and pick.size == n and np.array_equal(pick, np.arange(n)):
+        return obj
     return replace(
         obj,
         **{

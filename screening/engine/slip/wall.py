@@ -75,7 +75,11 @@ class WallSlipInput:
         return int(self.height_m.shape[0])
 
     def take(self, rows: np.ndarray) -> WallSlipInput:
-        """The same input for a subset of segments."""
+        """The same input for a subset of segments (itself for all of them, in order: it is
+        frozen)."""
+        rows = np.asarray(rows)
+        if rows.dtype != bool and rows.size == self.n and np.array_equal(rows, np.arange(self.n)):
+            return self
         return replace(
             self,
             **{
