@@ -203,15 +203,21 @@ class ExtraCheck:
     ``sizes_length``: True when a longer L may make it pass, so sizing searches for it.
     ``report``: optional (ctx, L) -> {name: (n,) array} of values to keep in
     ``CorridorResult.extras`` (e.g. the critical circle), evaluated once at the chosen L.
+    ``ratios``: optional (ctx, L) -> (demand, capacity, cdr), the same numbers as
+    ``evaluate`` without the words, for sizing's trial lengths (words are only shown at
+    the chosen L, and a slip check writes a sentence per segment and length).
     """
 
     name: str
     evaluate: ExtraEvaluate
     sizes_length: bool = True
     report: Callable[[ScreenContext, FloatArray], dict[str, np.ndarray]] | None = None
+    ratios: ExtraEvaluate | None = None
 
-    def values(self, ctx: ScreenContext, length_m: FloatArray) -> CheckValues:
-        out = self.evaluate(ctx, length_m)
+    def values(self, ctx: ScreenContext, length_m: FloatArray, words: bool = True) -> CheckValues:
+        """The check at L; ``words`` False: detail and case names may be left out."""
+        use = self.evaluate if words or self.ratios is None else self.ratios
+        out = use(ctx, length_m)
         demand, capacity, cdr = (np.asarray(v, dtype=np.float64) for v in out[:3])
         detail = list(out[3]) if len(out) > 3 else None
         case_name = list(out[4]) if len(out) > 4 else None

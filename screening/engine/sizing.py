@@ -78,7 +78,7 @@ def sizing_values(
     """Smallest CDR over the checks that size L at L, and the name of that check, (n,) each."""
     cdr, which = external.external_values(ctx, length_m)
     checks = [("pullout", internal.pullout(ctx, s, length_m, detail=False).cdr)]
-    checks += [(c.name, c.values(ctx, length_m).cdr) for c in extras if c.sizes_length]
+    checks += [(c.name, c.values(ctx, length_m, words=False).cdr) for c in extras if c.sizes_length]
     for name, value in checks:
         lower = value < cdr
         cdr = np.where(lower, value, cdr)
@@ -113,7 +113,8 @@ def size_length(ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraChec
     if sizing_extras and ctx.n:
         ok = np.ones(ctx.n, dtype=bool)
         for check in sizing_extras:
-            ok &= check.values(ctx, _length_at(ctx, core_steps)).cdr >= 1.0 - PASS_TOL
+            cdr = check.values(ctx, _length_at(ctx, core_steps), words=False).cdr
+            ok &= cdr >= 1.0 - PASS_TOL
         rows = np.flatnonzero(~ok & ~core_exhausted)
         if rows.size:
             sub = _scan(ctx, s, sizing_extras, rows, core_steps[rows], top[rows])

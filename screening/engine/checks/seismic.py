@@ -280,13 +280,11 @@ def _shaking_checks(ctx: ScreenContext, length_m: FloatArray) -> dict[str, tuple
         "rupture": worst_layer(rup_cap),
     }
     out["overall"] = overall_stability(ctx, length)
-    shaking = a.seismic_kh > 0
     for key, (dem, cap, cdr) in out.items():
         cdr = np.clip(np.nan_to_num(cdr, nan=0.0, posinf=CDR_CAP), 0.0, CDR_CAP)
-        cdr = np.where(shaking, np.where(valid, cdr, 0.0), CDR_CAP)
-        out[key] = (np.where(shaking, dem, 0.0), np.where(shaking, cap, 0.0), cdr)
+        out[key] = (dem, cap, np.where(valid, cdr, 0.0))
     out["kh"] = kh
-    out["valid"] = valid | ~shaking
+    out["valid"] = valid
     return out
 
 
@@ -334,15 +332,25 @@ def overall_stability(ctx: ScreenContext, length_m: FloatArray) -> tuple:
     return demand, capacity, cdr
 
 
+def _governing(checks: dict[str, tuple]) -> tuple:
+    """(demand, capacity, cdr, index into SUBCHECKS) of the sub-check with the least CDR."""
+    table = np.stack([checks[k][2] for k in SUBCHECKS], axis=1)
+    low = np.argmin(table, axis=1)
+    rows = np.arange(table.shape[0])
+    demand = np.stack([checks[k][0] for k in SUBCHECKS], axis=1)[rows, low]
+    capacity = np.stack([checks[k][1] for k in SUBCHECKS], axis=1)[rows, low]
+    return demand, capacity, table[rows, low], low
+
+
+def seismic_ratios(ctx: ScreenContext, length_m: FloatArray) -> tuple:
+    """(demand, capacity, cdr) of :func:`evaluate_seismic`, without its words (sizing)."""
+    return _governing(seismic_checks(ctx, length_m))[:3]
+
+
 def evaluate_seismic(ctx: ScreenContext, length_m: FloatArray) -> tuple:
     """(demand, capacity, cdr, detail) of the governing Extreme Event I sub-check, (n,) each."""
     checks = seismic_checks(ctx, length_m)
-    table = np.stack([checks[k][2] for k in SUBCHECKS], axis=1)
-    low = np.argmin(table, axis=1)
-    rows = np.arange(ctx.n)
-    demand = np.stack([checks[k][0] for k in SUBCHECKS], axis=1)[rows, low]
-    capacity = np.stack([checks[k][1] for k in SUBCHECKS], axis=1)[rows, low]
-    cdr = table[rows, low]
+    demand, capacity, cdr, low = _governing(checks)
     kh, kh0 = checks["kh"], ctx.a.seismic_kh
     names = np.array(SUBCHECKS, dtype=object)[low]
     detail = np.full(ctx.n, "no seismic load (kh0 = 0)", dtype=object)
@@ -398,4 +406,6 @@ def mo_invalid(ctx: ScreenContext) -> BoolArray:
     return (ctx.a.seismic_kh > 0) & ~ok
 
 
-EXTRA_CHECKS = (ExtraCheck("seismic", evaluate_seismic, sizes_length=True, report=report_seismic),)
+EXTRA_CHECKS = (
+    ExtraCheck("seismic", evaluate_seismic, report=report_seismic, ratios=seismic_ratios),
+)

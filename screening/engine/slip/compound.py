@@ -241,14 +241,23 @@ def shared_search(
     return entry[1].get(ctx, length_m, rows, runner)
 
 
+def _family_ratios(family: str):
+    def ratios(ctx: ScreenContext, length_m: FloatArray) -> tuple:
+        v = shared_search(ctx, length_m)
+        # A critical circle whose iteration did not settle is not trusted: the segment fails
+        # the check and the words say why (never a silent number).
+        cdr = np.where(v[f"{family}_converged"], v[f"{family}_cdr"], 0.0)
+        return v[f"{family}_demand"], v[f"{family}_capacity"], cdr
+
+    return ratios
+
+
 def _family_values(family: str):
     def evaluate(ctx: ScreenContext, length_m: FloatArray) -> tuple:
         v = shared_search(ctx, length_m)
         converged = v[f"{family}_converged"]
         found = v[f"{family}_found"]
-        # A critical circle whose iteration did not settle is not trusted: the segment fails
-        # the check and the words say why (never a silent number).
-        cdr = np.where(converged, v[f"{family}_cdr"], 0.0)
+        demand, capacity, cdr = _family_ratios(family)(ctx, length_m)
         detail = np.full(ctx.n, f"no {family} circle in the search range", dtype=object)
         rows = np.flatnonzero(found)
         if rows.size:
@@ -258,7 +267,7 @@ def _family_values(family: str):
         stuck = np.flatnonzero(~converged)
         detail[stuck] = "Bishop iteration did not converge on the critical circle: full design"
         case = [c or "" for c in v[f"{family}_case"].tolist()]
-        return v[f"{family}_demand"], v[f"{family}_capacity"], cdr, detail.tolist(), case
+        return demand, capacity, cdr, detail.tolist(), case
 
     return evaluate
 
@@ -313,6 +322,14 @@ def _report(ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
 
 
 EXTRA_CHECKS = (
-    ExtraCheck("compound", _family_values("compound"), sizes_length=True, report=_report),
-    ExtraCheck("global", _family_values("global"), sizes_length=True),
+    ExtraCheck(
+        "compound",
+        _family_values("compound"),
+        sizes_length=True,
+        report=_report,
+        ratios=_family_ratios("compound"),
+    ),
+    ExtraCheck(
+        "global", _family_values("global"), sizes_length=True, ratios=_family_ratios("global")
+    ),
 )
