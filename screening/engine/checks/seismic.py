@@ -36,7 +36,7 @@ from screening.engine.arrays import GEOGRID, GEOTEXTILE, GRID, STRIP
 from screening.engine.checks import internal
 from screening.engine.checks.external import UNDRAINED_NC, water_factor
 from screening.engine.checks.pressure import coulomb_ka, rankine_ka, vesic_factors
-from screening.engine.context import ExtraCheck, ScreenContext
+from screening.engine.context import ExtraCheck, ScreenContext, cdr_range
 from screening.engine.result import CDR_CAP, BoolArray, FloatArray
 from screening.engine.slip.wall import toe_slope_bearing_factors
 
@@ -281,7 +281,7 @@ def _shaking_checks(ctx: ScreenContext, length_m: FloatArray) -> dict[str, tuple
     }
     out["overall"] = overall_stability(ctx, length)
     for key, (dem, cap, cdr) in out.items():
-        cdr = np.clip(np.nan_to_num(cdr, nan=0.0, posinf=CDR_CAP), 0.0, CDR_CAP)
+        cdr = cdr_range(cdr)
         out[key] = (dem, cap, np.where(valid, cdr, 0.0))
     out["kh"] = kh
     out["valid"] = valid
