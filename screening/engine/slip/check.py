@@ -18,6 +18,7 @@ from screening.engine.slip.search import CriticalCircle, SlipSearch, search
 from screening.engine.slip.wall import (
     Factors,
     WallSlipInput,
+    wall_bounds,
     wall_grid,
     wall_layers,
     wall_section,
@@ -160,7 +161,7 @@ def _expand(check: FamilyCheck, inverse: np.ndarray) -> FamilyCheck:
 
 def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSearch:
     """Full search, or a warm refinement on the rows with known circles; merged by row."""
-    grid, bounds = wall_grid(sub, density)
+    bounds = wall_bounds(sub)
     known = np.zeros(rows.size, dtype=bool)
     if warm is not None:
         good = np.all(np.isfinite(warm[rows]), axis=2)  # (r, k) circles known
@@ -173,13 +174,15 @@ def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSe
             section,
             soils,
             layers,
-            grid,
+            wall_grid(sub, density)[0],
             bounds,
             density,
             kh,
             start_groups=len(density.exit_fractions),
         )
     parts = []
+    # The grid circles only where a full search runs (rows without known circles, or lost).
+    grid = wall_grid(sub, density)[0] if not known.all() else None
     for use_warm, pick in ((False, np.flatnonzero(~known)), (True, np.flatnonzero(known))):
         if pick.size == 0:
             parts.append((pick, None))
@@ -199,6 +202,7 @@ def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSe
             had_global = np.any(np.all(np.isfinite(warm[rows][pick, 1::2]), axis=2), axis=1)
             lost = np.flatnonzero(~found.compound.found | (had_global & ~found.global_.found))
             if lost.size:
+                grid = wall_grid(sub, density)[0] if grid is None else grid
                 again = search(
                     _take(sec, lost),
                     _take(so, lost),
@@ -266,6 +270,9 @@ def _take_search(found: SlipSearch, pick) -> SlipSearch:
 
 
 def _join(n: int, parts) -> SlipSearch:
+    whole = [found for pick, found in parts if found is not None and pick.size == n]
+    if whole:  # one part holds every row, in order (the picks are sorted and disjoint)
+        return whole[0]
     out = {}
     for fam in ("compound", "global_"):
         values = {}

@@ -174,14 +174,31 @@ def wall_layers(inp: WallSlipInput) -> SlipLayers:
     )
 
 
-def wall_grid(inp: WallSlipInput, density: SearchDensity) -> tuple[FloatArray, Bounds]:
-    """Grid circles (n, c, 3) and parameter bounds of every segment, scaled by H and L."""
-    h, length = inp.height_m, inp.length_m
+def _front_reach_m(inp: WallSlipInput) -> FloatArray:
+    """H plus the run of any toe slope (with its bench), (n,)."""
     toe = np.radians(np.clip(inp.toe_slope_deg, 0.0, 80.0))
     run = np.where(
         toe > 1e-6, BENCH_M + inp.toe_slope_height_m / np.maximum(np.tan(toe), 1e-6), 0.0
     )
-    reach = h + run
+    return inp.height_m + run
+
+
+def wall_bounds(inp: WallSlipInput, reach: FloatArray | None = None) -> Bounds:
+    """Parameter bounds of every segment's circles, scaled by H and L (those of wall_grid)."""
+    h, length = inp.height_m, inp.length_m
+    reach = _front_reach_m(inp) if reach is None else reach
+    return Bounds(
+        exit_min_m=-1.6 * reach,
+        exit_max_m=np.zeros_like(h),
+        entry_min_m=0.05 * np.maximum(length, 0.1 * h),
+        entry_max_m=length + 3.5 * h,
+    )
+
+
+def wall_grid(inp: WallSlipInput, density: SearchDensity) -> tuple[FloatArray, Bounds]:
+    """Grid circles (n, c, 3) and parameter bounds of every segment, scaled by H and L."""
+    h, length = inp.height_m, inp.length_m
+    reach = _front_reach_m(inp)
     exits = -np.asarray(density.exit_fractions)[None, :] * reach[:, None]
     entries = np.concatenate(
         [
@@ -195,13 +212,7 @@ def wall_grid(inp: WallSlipInput, density: SearchDensity) -> tuple[FloatArray, B
         exits[:, :, None, None], entries[:, None, :, None], angles[None, None, None, :]
     )
     grid = np.stack([e.reshape(inp.n, -1), x.reshape(inp.n, -1), a.reshape(inp.n, -1)], -1)
-    bounds = Bounds(
-        exit_min_m=-1.6 * reach,
-        exit_max_m=np.zeros_like(h),
-        entry_min_m=0.05 * np.maximum(length, 0.1 * h),
-        entry_max_m=length + 3.5 * h,
-    )
-    return grid, bounds
+    return grid, wall_bounds(inp, reach)
 
 
 def toe_slope_bearing_factors(
