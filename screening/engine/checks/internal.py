@@ -21,6 +21,8 @@ per grade.
 
 from __future__ import annotations
 
+import weakref
+
 import numpy as np
 
 from screening.engine.arrays import GRID, STRIP, SegmentArrays
@@ -151,12 +153,28 @@ def prepare(ctx: ScreenContext) -> InternalSetup:
     )
 
 
+_LAST_GRADES: list[tuple | None] = [None]
+"""The last choose_grades: (context, setup (weak references), L as bytes, result). Pullout,
+the slip input and the seismic checks each ask for the same context and L in turn."""
+
+
 def choose_grades(ctx: ScreenContext, s: InternalSetup, length_m: FloatArray) -> Grades:
     """Per layer, the lightest grade that carries T_max and passes pullout at L.
 
     When no grade passes both, the grade with the most pullout among those that carry T_max
-    (and the heaviest when none carries it) is kept, and its check fails.
+    (and the heaviest when none carries it) is kept, and its check fails. The result is
+    shared with the caller that asked last for the same (frozen) context, setup and L.
     """
+    key = (np.asarray(length_m).dtype.str, np.asarray(length_m).tobytes())
+    last = _LAST_GRADES[0]
+    if last is not None and last[0]() is ctx and last[1]() is s and last[2] == key:
+        return last[3]
+    grades = _choose_grades(ctx, s, length_m)
+    _LAST_GRADES[0] = (weakref.ref(ctx), weakref.ref(s), key, grades)
+    return grades
+
+
+def _choose_grades(ctx: ScreenContext, s: InternalSetup, length_m: FloatArray) -> Grades:
     le = np.maximum(length_m[:, None] - s.active_length, 0.0)
     uses = ctx.cases.uses("pullout")
     pick = uses if uses.any() else np.ones_like(uses)
