@@ -96,10 +96,12 @@ def compare(a_path: Path, b_path: Path) -> int:
     worst = (0.0, "", "")
     for name in a["cdr"]:
         ca, cb = np.array(a["cdr"][name]), np.array(b["cdr"][name])
-        rel = np.abs(cb - ca) / np.maximum(np.abs(ca), 1e-9)
-        rel = np.where(same_l & np.isfinite(rel), rel, 0.0)
+        signed = (cb - ca) / np.maximum(np.abs(ca), 1e-9)
+        rel = np.where(same_l & np.isfinite(signed), np.abs(signed), 0.0)
         for i in np.flatnonzero(rel > CDR_TOLERANCE):
-            print(f"cdr      {ids[i]} {name}: {ca[i]:.4f} -> {cb[i]:.4f} ({100 * rel[i]:+.2f} %)")
+            print(
+                f"cdr      {ids[i]} {name}: {ca[i]:.4f} -> {cb[i]:.4f} ({100 * signed[i]:+.2f} %)"
+            )
             problems += 1
         if rel.size and rel.max() > worst[0]:
             j = int(np.argmax(rel))
