@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 import numpy.typing as npt
 
-from screening.engine.result import FloatArray
+from screening.engine.result import BoolArray, FloatArray
 
 ArrayLike = npt.ArrayLike
 
@@ -63,3 +63,43 @@ def vesic_factors(friction_deg: ArrayLike) -> tuple[FloatArray, FloatArray, Floa
     nc = np.where(small, 2.0 + np.pi, (nq - 1.0) / np.where(small, 1.0, tan))
     ngamma = 2.0 * (nq + 1.0) * tan
     return nc, nq, ngamma
+
+
+def seismic_angle_deg(kh: FloatArray, kv: FloatArray | float = 0.0) -> FloatArray:
+    """psi = atan(kh / (1 - kv)), degrees."""
+    return np.degrees(np.arctan2(np.asarray(kh, dtype=np.float64), 1.0 - np.asarray(kv)))
+
+
+def mononobe_okabe_valid(
+    friction_deg: FloatArray, backslope_deg: FloatArray, kh: FloatArray, kv: float = 0.0
+) -> BoolArray:
+    """True where M-O has a solution: phi - psi - beta >= 0."""
+    return (
+        np.asarray(friction_deg) - seismic_angle_deg(kh, kv) - np.asarray(backslope_deg) >= -1e-12
+    )
+
+
+def mononobe_okabe_kae(
+    friction_deg: FloatArray,
+    wall_friction_deg: FloatArray,
+    backslope_deg: FloatArray,
+    kh: FloatArray,
+    kv: float = 0.0,
+    back_batter_deg: FloatArray | float = 0.0,
+) -> FloatArray:
+    """Mononobe-Okabe K_AE (the formula and its sources: screening.engine.checks.seismic);
+    NaN where phi - psi - beta < 0. ``back_batter_deg`` is theta, the back of the wall from
+    the vertical (positive leaning over the backfill)."""
+    phi = np.radians(np.asarray(friction_deg, dtype=np.float64))
+    delta = np.radians(np.asarray(wall_friction_deg, dtype=np.float64))
+    beta = np.radians(np.asarray(backslope_deg, dtype=np.float64))
+    theta = np.radians(np.asarray(back_batter_deg, dtype=np.float64))
+    psi = np.radians(seismic_angle_deg(kh, kv))
+    valid = mononobe_okabe_valid(friction_deg, backslope_deg, kh, kv)
+    s = np.sin(phi + delta) * np.sin(np.clip(phi - beta - psi, 0.0, None))
+    d = np.cos(delta + theta + psi) * np.cos(beta - theta)
+    root = np.sqrt(np.clip(s / d, 0.0, None))
+    kae = np.cos(phi - theta - psi) ** 2 / (
+        np.cos(psi) * np.cos(theta) ** 2 * np.cos(delta + theta + psi) * (1.0 + root) ** 2
+    )
+    return np.where(valid, kae, np.nan)

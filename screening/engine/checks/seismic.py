@@ -35,7 +35,14 @@ import numpy as np
 from screening.engine.arrays import GEOGRID, GEOTEXTILE, GRID, STRIP
 from screening.engine.checks import internal
 from screening.engine.checks.external import UNDRAINED_NC, water_factor
-from screening.engine.checks.pressure import coulomb_ka, rankine_ka, vesic_factors
+from screening.engine.checks.pressure import (
+    coulomb_ka,
+    mononobe_okabe_kae,
+    mononobe_okabe_valid,
+    rankine_ka,
+    seismic_angle_deg,
+    vesic_factors,
+)
 from screening.engine.context import ExtraCheck, ScreenContext, cdr_range
 from screening.engine.result import CDR_CAP, BoolArray, FloatArray
 from screening.engine.slip.wall import toe_slope_bearing_factors
@@ -53,45 +60,6 @@ ASD_SEISMIC_RATIO = 0.75
 EXTREME_OVERALL = 0.9
 """Resistance factor of overall (compound and global) stability in Extreme Event I
 [mem, AASHTO LRFD 11.6.5]."""
-
-
-def seismic_angle_deg(kh: FloatArray, kv: FloatArray | float = 0.0) -> FloatArray:
-    """psi = atan(kh / (1 - kv)), degrees."""
-    return np.degrees(np.arctan2(np.asarray(kh, dtype=np.float64), 1.0 - np.asarray(kv)))
-
-
-def mononobe_okabe_valid(
-    friction_deg: FloatArray, backslope_deg: FloatArray, kh: FloatArray, kv: float = 0.0
-) -> BoolArray:
-    """True where M-O has a solution: phi - psi - beta >= 0."""
-    return (
-        np.asarray(friction_deg) - seismic_angle_deg(kh, kv) - np.asarray(backslope_deg) >= -1e-12
-    )
-
-
-def mononobe_okabe_kae(
-    friction_deg: FloatArray,
-    wall_friction_deg: FloatArray,
-    backslope_deg: FloatArray,
-    kh: FloatArray,
-    kv: float = 0.0,
-    back_batter_deg: FloatArray | float = 0.0,
-) -> FloatArray:
-    """K_AE (module docstring); NaN where phi - psi - beta < 0. ``back_batter_deg`` is theta,
-    the back of the wall from the vertical (positive leaning over the backfill)."""
-    phi = np.radians(np.asarray(friction_deg, dtype=np.float64))
-    delta = np.radians(np.asarray(wall_friction_deg, dtype=np.float64))
-    beta = np.radians(np.asarray(backslope_deg, dtype=np.float64))
-    theta = np.radians(np.asarray(back_batter_deg, dtype=np.float64))
-    psi = np.radians(seismic_angle_deg(kh, kv))
-    valid = mononobe_okabe_valid(friction_deg, backslope_deg, kh, kv)
-    s = np.sin(phi + delta) * np.sin(np.clip(phi - beta - psi, 0.0, None))
-    d = np.cos(delta + theta + psi) * np.cos(beta - theta)
-    root = np.sqrt(np.clip(s / d, 0.0, None))
-    kae = np.cos(phi - theta - psi) ** 2 / (
-        np.cos(psi) * np.cos(theta) ** 2 * np.cos(delta + theta + psi) * (1.0 + root) ** 2
-    )
-    return np.where(valid, kae, np.nan)
 
 
 def wall_kh(kh0: FloatArray, movement_acceptable: BoolArray) -> FloatArray:
