@@ -79,9 +79,7 @@ def test_ties_and_edges_round_as_python_does() -> None:
     values += [1e15 + 0.5, 2.0**52 + 1, 1e20, -1e300, np.nan, np.inf, -np.inf, 123456.78905]
     for digits in (2, 3, 4):
         assert _same(num_column(values, digits), _python_round(values, digits))
-    assert _same(
-        cdr_column(values), [cdr_cut(x) if math.isfinite(x) else None for x in values]
-    )
+    assert _same(cdr_column(values), [cdr_cut(x) if math.isfinite(x) else None for x in values])
 
 
 json_values = st.recursive(
