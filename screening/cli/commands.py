@@ -228,6 +228,7 @@ def cmd_report(args: argparse.Namespace) -> int:
         sensitivity=not args.no_sensitivity,
         monte_carlo_samples=args.monte_carlo,
         seed=args.seed,
+        figures=args.figures,
         project=args.project or "",
         revision=args.revision or "",
         source=args.file,
