@@ -41,8 +41,17 @@ def to_builtin(value: Any) -> Any:
     return value
 
 
+_KEYS: dict[str, str] = {}
+"""Keys as written, by name (a file repeats the same few dozen keys)."""
+
+
 def key(name: str) -> str:
-    return name if _BARE.match(name) else tomli_w.dumps({"k": name})[4:].strip()
+    written = _KEYS.get(name)
+    if written is None:
+        written = name if _BARE.match(name) else tomli_w.dumps({"k": name})[4:].strip()
+        if len(_KEYS) < 10_000:
+            _KEYS[name] = written
+    return written
 
 
 _PLAIN = re.compile(r"[ -!#-\[\]-~]*")
@@ -81,10 +90,12 @@ ALWAYS_INLINE = frozenset({"fill", "retained", "foundation"})
 """Soil tables stay on one line however long: a corridor file reads like a table of soils."""
 
 
-def _fits(name: str, value: dict[str, Any]) -> bool:
+def _fits(name: str, value: dict[str, Any]) -> str | None:
+    """The table on one line when it goes inline, else None."""
     if any(_is_tables(v) for v in value.values()):
-        return False
-    return name in ALWAYS_INLINE or len(f"{name} = {inline(value)}") <= INLINE_MAX
+        return None
+    one = inline(value)
+    return one if name in ALWAYS_INLINE or len(f"{name} = {one}") <= INLINE_MAX else None
 
 
 def _array(value: list[Any]) -> str:
@@ -107,14 +118,18 @@ def _section(
         out.append(f"\n[[{dotted}]]" if array else f"\n[{dotted}]")
     later: list[tuple[str, Any, bool]] = []
     for k, v in body.items():
-        if isinstance(v, dict) and (k in force or not _fits(k, v)):
-            later.append((k, v, False))
+        if isinstance(v, dict):
+            one = None if k in force else _fits(k, v)
+            if one is None:
+                later.append((k, v, False))
+            else:
+                out.append(f"{key(k)} = {one}")
         elif _is_tables(v) and (k in force or len(inline(v)) > INLINE_MAX - 20):
             later.append((k, v, True))
         elif isinstance(v, list):
             out.append(f"{key(k)} = {_array(v)}")
         else:
-            out.append(f"{key(k)} = {inline(v)}")
+            out.append(f"{key(k)} = {scalar(v)}")
     for k, v, is_array in later:
         if is_array:
             for item in v:
