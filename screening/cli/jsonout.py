@@ -1,9 +1,9 @@
 """The JSON face of a screen (``wallscreen check --json``), as DESIGN.md describes it.
 
 The document is built column by column over all segments (numbers rounded as whole arrays,
-see :mod:`screening.cli.json_numbers`) and written by :func:`screening.cli.json_text.dump`,
-which gives the same bytes as ``json.dump(doc, fp, indent=1)`` several times faster.
-``segment_json`` is the same entry for one segment, from its :class:`SegmentResult`.
+see :mod:`screening.cli.json_numbers`); ``segment_json`` is the same entry for one segment,
+from its :class:`SegmentResult`. ``check --json`` writes the text straight from the result
+(:mod:`screening.cli.json_write`), the same bytes as ``json.dumps(doc, indent=1)``.
 """
 
 from __future__ import annotations

@@ -216,7 +216,7 @@ def cross_section_svg(corridor: Corridor, result: CorridorResult, i: int, displa
     for name, xc, yc, r in slip_circles(result, i):
         runs = _circle_runs(xc, yc, r, big_h, d, beta, toe)
         if runs:
-            arcs.append((name, runs))
+            arcs.append((name, runs, r))
             xs = [p[0] for run in runs for p in run]
             front = max(front, -min(xs) + 0.5)
             back = max(back, max(xs) + 0.5)
@@ -280,8 +280,17 @@ def cross_section_svg(corridor: Corridor, result: CorridorResult, i: int, displa
         yw = -seg.foundation.water_depth_m
         body.append(p.path([pts([-front, back], [yw, yw])], "wt"))
         legend.append(("wt", "water table"))
-    for (name, runs), cls in zip(arcs, CIRCLE_CLASSES, strict=False):
-        body.append(p.path([pts(*zip(*run, strict=True)) for run in runs], cls))
+    px_per_unit = p.width / (p.x1 - p.x0)  # the same on both axes: drawn to scale
+    for (name, runs, r), cls in zip(arcs, CIRCLE_CLASSES, strict=False):
+        radius = _n(v(r) * px_per_unit)
+        # each run is one arc of the circle's lower half, left to right (sweep 0 on screen)
+        d = "".join(
+            f"M{p.pt(v(run[0][0]), v(run[0][1]))}A{radius},{radius} 0 0 0 "
+            f"{p.pt(v(run[-1][0]), v(run[-1][1]))}"
+            for run in runs
+            if len(run) >= 2
+        )
+        body.append(f'<path class="{cls}" d="{d}"/>')
         legend.append((cls, f"critical {name} circle"))
     body.append(p.axes(f"from the face ({unit})", f"above the base ({unit})"))
     cdr = float(result.min_cdr[i])
