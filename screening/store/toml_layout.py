@@ -28,6 +28,9 @@ def to_builtin(value: Any) -> Any:
 
     Keys whose value is None are dropped; None inside an array is refused.
     """
+    kind = type(value)
+    if kind is str or kind is float or kind is int or kind is bool:
+        return value  # the common leaves first (exact types: numpy's float64 goes below)
     if isinstance(value, dict):
         return {str(k): to_builtin(v) for k, v in value.items() if v is not None}
     if isinstance(value, list | tuple):
@@ -60,6 +63,11 @@ _PLAIN = re.compile(r"[ -!#-\[\]-~]*")
 
 def scalar(value: Any) -> str:
     """One scalar in TOML: the common cases directly, the rest by tomli_w."""
+    kind = type(value)
+    if kind is float and math.isfinite(value):
+        return repr(value)
+    if kind is str and _PLAIN.fullmatch(value):
+        return f'"{value}"'
     if isinstance(value, bool):
         return "true" if value else "false"
     if isinstance(value, float) and math.isfinite(value):
