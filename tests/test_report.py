@@ -7,10 +7,10 @@ data: four segments, one of them 13 m high (outside screening: referred, METHOD 
 
 from __future__ import annotations
 
-import base64
 import csv
 import io
 import re
+import xml.etree.ElementTree as ET
 from html.parser import HTMLParser
 
 import pytest
@@ -73,10 +73,13 @@ class _Tags(HTMLParser):
         self.stack: list[str] = []
         self.errors: list[str] = []
         self.images: list[str] = []
+        self.figures: list[str] = []
 
     def handle_starttag(self, tag, attrs):
         if tag == "img":
             self.images.append(dict(attrs)["src"])
+        if tag == "svg" and dict(attrs).get("class") == "fig":
+            self.figures.append(dict(attrs)["aria-label"])
         if tag not in self.VOID:
             self.stack.append(tag)
 
@@ -108,12 +111,54 @@ def test_html_embeds_a_long_section_per_wall_and_a_cross_section_per_flagged_seg
     _, result = screened
     tags = _Tags()
     tags.feed(html_text)
-    flagged = sum(v != "clear" for v in result.verdict)
-    assert flagged >= 1  # N-03 is 13 m high: referred
-    assert len(tags.images) == 2 + flagged  # North and South, then one per flagged segment
-    for src in tags.images:
-        assert src.startswith("data:image/png;base64,")
-        assert base64.b64decode(src.split(",", 1)[1])[:8] == b"\x89PNG\r\n\x1a\n"
+    flagged = [sid for sid, v in zip(result.ids, result.verdict, strict=True) if v != "clear"]
+    assert flagged  # N-03 is 13 m high: referred
+    assert tags.images == []  # vector figures, no images
+    assert tags.figures == [
+        "long section of North",
+        "long section of South",
+        *(f"cross-section of {sid}" for sid in flagged),
+    ]
+
+
+def _figures(html_text: str) -> dict[str, ET.Element]:
+    """Each inline figure parsed as XML (so each is well-formed on its own), by its label."""
+    out = {}
+    for text in re.findall(r'<svg class="fig".*?</svg>', html_text, re.S):
+        element = ET.fromstring(text)
+        out[element.get("aria-label")] = element
+    return out
+
+
+def test_figures_draw_each_segment_and_each_layer(html_text, screened):
+    _, result = screened
+    figures = _figures(html_text)
+    north = figures["long section of North"]
+    shaded = [e.get("class") for e in north.iter("rect") if e.get("class", "").startswith("v-")]
+    # a band per segment in verdict order, then the three legend swatches
+    assert shaded[:3] == [f"v-{result.verdict[i]}" for i in range(3)]
+    assert shaded[3:] == ["v-clear", "v-marginal", "v-refer"]
+    for i, sid in enumerate(result.ids):
+        if result.verdict[i] == "clear":
+            assert f"cross-section of {sid}" not in figures
+            continue
+        xs = figures[f"cross-section of {sid}"]
+        layers = next(e for e in xs.iter("path") if e.get("class") == "lay")
+        assert layers.get("d").count("M") == int(result.layers.mask[i].sum())
+        assert any(sid in (e.text or "") for e in xs.iter("text"))  # the title names it
+
+
+def test_html_cross_sections_all_or_none(screened, tmp_path):
+    corridor, result = screened
+    every = write_report(corridor, result, tmp_path / "all.html", figures="all")
+    labels = [k for k in _figures(every.read_text(encoding="utf-8")) if k.startswith("cross")]
+    assert labels == [f"cross-section of {sid}" for sid in result.ids]
+    none = write_report(corridor, result, tmp_path / "none.html", figures="none")
+    text = none.read_text(encoding="utf-8")
+    assert [k for k in _figures(text) if k.startswith("cross")] == []
+    assert "long section of North" in _figures(text) and "asked for none" in text
+    with pytest.raises(InputError, match="figures 'some'"):
+        write_report(corridor, result, tmp_path / "x.html", figures="some")
 
 
 def test_html_shows_assumptions_quantities_and_sensitivity(html_text, screened):

@@ -62,6 +62,13 @@ def _parser() -> argparse.ArgumentParser:
     )
     r.add_argument("--seed", type=int, default=0, help="seed of the Monte Carlo samples")
     r.add_argument(
+        "--figures",
+        choices=("flagged", "all", "none"),
+        default="flagged",
+        help="cross-sections in an HTML report: of the referred and marginal segments "
+        "(default), of every segment, or none; a long section of each wall is always drawn",
+    )
+    r.add_argument(
         "--mechanism",
         nargs="?",
         const="flagged",

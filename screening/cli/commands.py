@@ -62,9 +62,9 @@ def cmd_check(args: argparse.Namespace) -> int:
         print(f"wallscreen: warning: {line}", file=sys.stderr)
     result = _with_mechanism(corridor, result, args.mechanism)
     if args.json:
-        from screening.cli.jsonout import corridor_json
+        from screening.cli.json_write import dump
 
-        json.dump(corridor_json(corridor, result), sys.stdout, indent=1)
+        dump(corridor, result, sys.stdout)  # the bytes of json.dump(corridor_json(...), indent=1)
         sys.stdout.write("\n")
     else:
         print(_table(corridor, result))
@@ -228,6 +228,7 @@ def cmd_report(args: argparse.Namespace) -> int:
         sensitivity=not args.no_sensitivity,
         monte_carlo_samples=args.monte_carlo,
         seed=args.seed,
+        figures=args.figures,
         project=args.project or "",
         revision=args.revision or "",
         source=args.file,

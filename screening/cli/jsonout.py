@@ -1,12 +1,21 @@
-"""The JSON face of a screen (``wallscreen check --json``), as DESIGN.md describes it."""
+"""The JSON face of a screen (``wallscreen check --json``), as DESIGN.md describes it.
+
+The document is built column by column over all segments (numbers rounded as whole arrays,
+see :mod:`screening.cli.json_numbers`); ``segment_json`` is the same entry for one segment,
+from its :class:`SegmentResult`. ``check --json`` writes the text straight from the result
+(:mod:`screening.cli.json_write`), the same bytes as ``json.dumps(doc, indent=1)``.
+"""
 
 from __future__ import annotations
 
 import math
 from typing import Any
 
+import numpy as np
+
 from screening import CAUTION
-from screening.engine.result import CorridorResult, SegmentResult, cdr_cut
+from screening.cli.json_numbers import cdr_column, num_column
+from screening.engine.result import CorridorResult, SegmentResult, _unit, cdr_cut
 from screening.model import SCHEMA, Corridor
 
 
@@ -86,7 +95,12 @@ def _plain(v: object) -> object:
 
 
 def corridor_json(corridor: Corridor, result: CorridorResult) -> dict[str, Any]:
-    """The whole screen as a JSON-ready dict."""
+    """The whole screen as a JSON-ready dict (built-in types only)."""
+    return {**corridor_head(corridor, result), "segments": _segments(result)}
+
+
+def corridor_head(corridor: Corridor, result: CorridorResult) -> dict[str, Any]:
+    """Everything of :func:`corridor_json` before its segments."""
     return {
         "schema": SCHEMA,
         "corridor": corridor.name,
@@ -94,5 +108,136 @@ def corridor_json(corridor: Corridor, result: CorridorResult) -> dict[str, Any]:
         "engine_version": result.engine_version,
         "counts": result.counts(),
         "caution": CAUTION,
-        "segments": [segment_json(result.segment(i)) for i in range(len(result))],
     }
+
+
+# ------------------------------------------------------------------ all segments at once
+
+
+def _segments(result: CorridorResult) -> list[dict[str, Any]]:
+    """Every segment's entry, equal to ``segment_json(result.segment(i))`` for each ``i``."""
+    n = len(result)
+    if n == 0:
+        return []
+    h = np.asarray(result.design_height_m, dtype=np.float64)
+    length = np.asarray(result.length_m, dtype=np.float64)
+    ratio = np.zeros(n)
+    np.divide(length, h, out=ratio, where=h > 0)
+    cols = {
+        "exposed_height_m": num_column(result.exposed_height_m, 3),
+        "design_height_m": num_column(h, 3),
+        "embedment_m": num_column(result.embedment_m, 3),
+        "length_m": num_column(length, 2),
+        "length_ratio": num_column(ratio, 3),
+        "rule_length_m": num_column(result.rule_length_m, 2),
+        "min_cdr": cdr_column(result.min_cdr),
+        "margin_cdr": cdr_column(result.margin_cdr),
+        "traffic_kpa": num_column(result.traffic_kpa, 2),
+    }
+    boost = np.asarray(result.grade_boost).astype(np.int64).tolist()
+    checks = _check_columns(result)
+    layers = _layer_lists(result)
+    extras = _extra_columns(result)
+    out = []
+    for i in range(n):
+        seg: dict[str, Any] = {
+            "id": result.ids[i],
+            "verdict": result.verdict[i],
+            "exposed_height_m": cols["exposed_height_m"][i],
+            "design_height_m": cols["design_height_m"][i],
+            "embedment_m": cols["embedment_m"][i],
+            "length_m": cols["length_m"][i],
+            "length_ratio": cols["length_ratio"][i],
+            "rule_length_m": cols["rule_length_m"][i],
+            "governing": result.governing[i],
+            "min_cdr": cols["min_cdr"][i],
+            "length_set_by": result.length_set_by[i],
+            "margin_check": result.margin_check[i],
+            "margin_cdr": cols["margin_cdr"][i],
+            "grade_steps_added": boost[i],
+            "traffic_kpa": cols["traffic_kpa"][i],
+            "reasons": list(result.reasons[i]),
+            "checks": {
+                name: {
+                    "demand": demand[i],
+                    "capacity": capacity[i],
+                    "cdr": cdr[i],
+                    "unit": unit(i),
+                    "case": case[i],
+                    "where": detail[i],
+                }
+                for name, (demand, capacity, cdr, unit, case, detail) in checks
+            },
+            "layers": layers[i],
+        }
+        if extras:
+            seg["extras"] = {key: column[i] for key, column in extras}
+        out.append(seg)
+    return out
+
+
+def _check_columns(result: CorridorResult) -> list[tuple[str, tuple]]:
+    out = []
+    for name, c in result.checks.items():
+        detail = list(c.detail)
+        if name == "seismic":  # its unit is the governing sub-check's, named in the detail
+
+            def unit(i: int, name: str = name, detail: list[str] = detail) -> str:
+                return _unit(name, detail[i])
+        else:
+
+            def unit(i: int, fixed: str = _unit(name, "")) -> str:
+                return fixed
+
+        cols = (num_column(c.demand), num_column(c.capacity), cdr_column(c.cdr))
+        out.append((name, (*cols, unit, list(c.case), detail)))
+    return out
+
+
+def _layer_lists(result: CorridorResult) -> list[list[dict[str, Any]]]:
+    lay = result.layers
+    mask = np.asarray(lay.mask, dtype=bool)
+    depth = num_column(lay.depth_m, 3)
+    tension = num_column(lay.tension_kn_m, 2)
+    pullout = num_column(lay.pullout_capacity_kn_m, 2)
+    rupture = num_column(lay.rupture_capacity_kn_m, 2)
+    grade = np.asarray(lay.grade_index).tolist()
+    rows = [np.flatnonzero(m).tolist() for m in mask] if mask.size else [[]] * len(result)
+    out = []
+    for i, js in enumerate(rows):
+        names = result.grade_names[i]
+        d, t, p, r, g = depth[i], tension[i], pullout[i], rupture[i], grade[i]
+        out.append(
+            [
+                {
+                    "depth_m": d[j],
+                    "tension_kn_m": t[j],
+                    "pullout_capacity_kn_m": p[j],
+                    "rupture_capacity_kn_m": r[j],
+                    "grade": names[g[j]] if g[j] >= 0 else "none strong enough",
+                }
+                for j in js
+            ]
+        )
+    return out
+
+
+def _extra_columns(result: CorridorResult) -> list[tuple[str, list[Any]]]:
+    """Per-segment extras as lists of JSON values, in the result's order (what
+    ``segment_view`` keeps: arrays or lists as long as the corridor)."""
+    n = len(result)
+    out = []
+    for key, value in result.extras.items():
+        if not (isinstance(value, np.ndarray | list) and len(value) == n):
+            continue
+        if isinstance(value, np.ndarray) and value.dtype.kind == "f":
+            out.append((key, num_column(value)))
+        elif isinstance(value, np.ndarray) and value.dtype.kind in "biu":
+            out.append((key, value.tolist()))
+        else:
+            out.append((key, [_plain(_scalar(v)) for v in value]))
+    return out
+
+
+def _scalar(value: object) -> object:
+    return value.item() if isinstance(value, np.generic) else value

@@ -49,6 +49,7 @@ def write_report(
     monte_carlo_samples: int = 0,
     monte_carlo_core_only: bool = False,
     seed: int = 0,
+    figures: str = "flagged",
     project: str = "",
     revision: str = "",
     source: str | os.PathLike[str] | None = None,
@@ -63,6 +64,8 @@ def write_report(
     ``project``, ``revision`` and ``source`` (the corridor file, hashed) go in the hand-over
     block at the top; a CSV report also writes ``<name>-about.txt`` beside it with that
     block and the cautions, so the CSV itself is one header row and one row a segment.
+    ``figures``: which segments get a cross-section in HTML: ``flagged`` (referred and
+    marginal, the default), ``all`` or ``none``; a long section of each wall is always drawn.
     """
     out = Path(out_path)
     kind = FORMATS.get(out.suffix.lower())
@@ -82,6 +85,7 @@ def write_report(
         monte_carlo_samples=monte_carlo_samples,
         monte_carlo_core_only=monte_carlo_core_only,
         seed=seed,
+        figures=figures,
         project=project,
         revision=revision,
         source=source,

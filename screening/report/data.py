@@ -31,7 +31,11 @@ from screening.model.units import Display
 SENSITIVITY_LIMIT = 60
 """Most segments given a sensitivity table (referred first, then marginal by CDR)."""
 CROSS_SECTION_LIMIT = 200
-"""Most cross-section figures (about 0.3 s and 40 kB each), chosen the same way."""
+"""Most cross-section figures of referred and marginal segments (a few ms and about 5 kB
+each as SVG), chosen the same way; ``figures="all"`` draws every segment."""
+FIGURE_CHOICES = ("flagged", "all", "none")
+"""Which segments get a cross-section: referred and marginal (up to the limit), every
+segment, or none."""
 
 
 @dataclass
@@ -50,6 +54,8 @@ class ReportData:
     """Things the reader should know about the report itself (what was left out)."""
     cross_sections: list[int] = field(default_factory=list)
     """Segments drawn across the wall, in corridor order."""
+    figures: str = "flagged"
+    """Which segments were to be drawn across: one of FIGURE_CHOICES."""
     project: str = ""
     revision: str = ""
     source: str = ""
@@ -73,6 +79,7 @@ def build_report_data(
     sensitivity: bool = True,
     sensitivity_limit: int = SENSITIVITY_LIMIT,
     cross_section_limit: int = CROSS_SECTION_LIMIT,
+    figures: str = "flagged",
     monte_carlo_samples: int = 0,
     monte_carlo_core_only: bool = False,
     seed: int = 0,
@@ -83,6 +90,8 @@ def build_report_data(
     rates_source: str | None = None,
 ) -> ReportData:
     """Compute quantities, sensitivity and (optionally) Monte Carlo for a report."""
+    if figures not in FIGURE_CHOICES:
+        raise InputError(f"figures {figures!r}: use {', '.join(FIGURE_CHOICES)}", field="figures")
     if list(result.ids) != [s.id for s in corridor.segments]:
         raise InputError("the screen does not belong to this corridor; screen it again")
     notes: list[str] = []
@@ -113,11 +122,15 @@ def build_report_data(
         quantities=quantities,
         ranges=ranges,
         notes=notes,
+        figures=figures,
     )
     flagged = data.flagged
     order = sorted(flagged, key=lambda i: (result.verdict[i] != "refer", float(result.min_cdr[i])))
-    data.cross_sections = sorted(order[:cross_section_limit])
-    if len(order) > cross_section_limit:
+    if figures == "all":
+        data.cross_sections = list(range(len(result)))
+    elif figures == "flagged":
+        data.cross_sections = sorted(order[:cross_section_limit])
+    if figures == "flagged" and len(order) > cross_section_limit:
         notes.append(
             f"Cross-sections drawn for {cross_section_limit} of {len(order)} referred or marginal "
             "segments (referred first, then the lowest CDR)."

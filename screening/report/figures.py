@@ -1,53 +1,36 @@
-"""Figures of the report, drawn with matplotlib (Agg canvas, no pyplot, imported lazily).
+"""Figures of the report as inline SVG (no figure library; styles and shared symbols in
+:mod:`screening.report.svg`, written once per page).
 
-- :func:`long_section_png`: one figure per wall along the chainage: exposed and design
-  height with the verdict of each segment shaded behind, and below it the screened
-  length L against the rule-of-thumb length.
-- :func:`cross_section_png`: one segment across the wall: facing, levelling pad,
+- :func:`long_section_svg`: one figure per wall along the chainage: exposed and design
+  height with the verdict of each segment shaded behind (and its letter where there is
+  room), and below it the screened length L against the rule-of-thumb length.
+- :func:`cross_section_svg`: one segment across the wall: facing, levelling pad,
   reinforced zone with its layers, the line of maximum tension (the engine's La at each
   layer, and the method's line), ground in front at the embedment, the surcharge, the
   water table when it is near, and the critical slip circles when the screen has them.
 
-Every figure returns PNG bytes; the report embeds them as base64.
+Both are drawn to scale from the same geometry the screen used; a few kilobytes each.
 """
 
 from __future__ import annotations
 
-import io
 import math
 from collections.abc import Sequence
+from html import escape
 
 import numpy as np
 
 from screening.engine.result import CorridorResult, cdr_text
 from screening.model import Corridor, Segment
 from screening.model.units import Display
+from screening.report.svg import VERDICT_COLOUR, Panel, svg
+from screening.report.svg import num as _n
 
-VERDICT_COLOUR = {"clear": "#5b9e7a", "marginal": "#e0b04a", "refer": "#c4563f"}
-"""Our own palette: sage, ochre, brick (readable in grey by the letters drawn too)."""
+__all__ = ["VERDICT_COLOUR", "cross_section_svg", "long_section_svg", "slip_circles", "walls"]
+
 VERDICT_LETTER = {"clear": "C", "marginal": "M", "refer": "R"}
-ZONE_COLOUR = "#e9e2d0"
-LAYER_COLOUR = "#3b5b7a"
-DPI = 110
-
-
-def _figure(width_in: float, height_in: float, margins: dict[str, float], rows: int = 1, **kw):
-    """A figure on its own Agg canvas (no pyplot state), with fixed margins: an automatic
-    layout engine doubles the drawing time of every figure."""
-    from matplotlib.backends.backend_agg import FigureCanvasAgg
-    from matplotlib.figure import Figure
-
-    fig = Figure(figsize=(width_in, height_in), dpi=DPI)
-    FigureCanvasAgg(fig)
-    axes = fig.subplots(rows, 1, **kw)
-    fig.subplots_adjust(**margins)
-    return fig, axes
-
-
-def _png(fig) -> bytes:
-    buf = io.BytesIO()
-    fig.savefig(buf, format="png", dpi=DPI, pil_kwargs={"compress_level": 1})
-    return buf.getvalue()
+LETTER_ROOM_PX = 9.0
+"""A segment narrower than this on the long section gets its colour but no letter."""
 
 
 def walls(corridor: Corridor) -> dict[str, list[int]]:
@@ -60,62 +43,85 @@ def walls(corridor: Corridor) -> dict[str, list[int]]:
     }
 
 
-def long_section_png(
+def long_section_svg(
     corridor: Corridor, result: CorridorResult, rows: Sequence[int], title: str, display: Display
-) -> bytes:
+) -> str:
     """Long section of the segments ``rows`` (one wall) along the chainage."""
-    margins = {"left": 0.07, "right": 0.985, "top": 0.92, "bottom": 0.11, "hspace": 0.08}
-    fig, (top, bottom) = _figure(10.0, 4.6, margins, rows=2, sharex=True, height_ratios=(3, 2))
     m = display.label("m")
-    ch = lambda v: display.value(v, "m")  # noqa: E731 - a local unit helper
-    tallest = 0.0
-    for i in rows:
-        seg = corridor.segments[i]
-        c0, c1 = ch(seg.chainage_start_m), ch(seg.chainage_end_m)
-        verdict = result.verdict[i]
-        top.axvspan(c0, c1, color=VERDICT_COLOUR[verdict], alpha=0.25, lw=0)
-        h = [ch(seg.height_start_m), ch(seg.height_end_m)]
-        d = ch(float(result.embedment_m[i]))
-        top.plot([c0, c1], h, color="#222222", lw=1.8)
-        top.plot([c0, c1], [h[0] + d, h[1] + d], color="#222222", lw=1.0, ls="--")
-        top.text(
-            (c0 + c1) / 2, max(h) + d, VERDICT_LETTER[verdict], ha="center", va="bottom", fontsize=8
-        )
-        tallest = max(tallest, max(h) + d)
-        length = ch(float(result.length_m[i]))
-        rule = ch(float(result.rule_length_m[i]))
-        bottom.plot([c0, c1], [length, length], color=LAYER_COLOUR, lw=2.0)
-        bottom.plot([c0, c1], [rule, rule], color="#777777", lw=1.0, ls=":")
-        bottom.axvline(c0, color="#bbbbbb", lw=0.5)
-    top.set_ylim(0, tallest * 1.32 + 0.1)  # room for the legend
-    top.set_ylabel(f"height ({m})")
-    top.set_title(title, loc="left", fontsize=10)
-    from matplotlib.lines import Line2D
-    from matplotlib.patches import Patch
 
-    handles = [
-        Line2D([], [], color="#222222", lw=1.8, label="exposed height"),
-        Line2D([], [], color="#222222", lw=1.0, ls="--", label="design height (with embedment)"),
-        *(
-            Patch(color=VERDICT_COLOUR[v], alpha=0.4, label=f"{v} ({VERDICT_LETTER[v]})")
-            for v in VERDICT_COLOUR
-        ),
-    ]
-    top.legend(handles=handles, fontsize=7, ncols=5, loc="upper left")
-    bottom.set_ylabel(f"L ({m})")
-    bottom.set_xlabel(f"chainage ({m})")
-    ys = [max(line.get_ydata()) for line in bottom.get_lines() if len(line.get_ydata())]
-    bottom.set_ylim(0, float(max(ys, default=1.0)) * 1.4 + 0.1)  # flat L lines stay off the frame
-    bottom.legend(
-        handles=[
-            Line2D([], [], color=LAYER_COLOUR, lw=2.0, label="screened L"),
-            Line2D([], [], color="#777777", ls=":", label="rule-of-thumb L"),
-        ],
-        fontsize=7,
-        loc="lower left",
-        ncols=2,
+    def ch(v: float) -> float:
+        return display.value(float(v), "m")
+
+    segs = [corridor.segments[i] for i in rows]
+    c0s = [ch(s.chainage_start_m) for s in segs]
+    c1s = [ch(s.chainage_end_m) for s in segs]
+    d = [ch(result.embedment_m[i]) for i in rows]
+    hs = [(ch(s.height_start_m), ch(s.height_end_m)) for s in segs]
+    lengths = [ch(result.length_m[i]) for i in rows]
+    rules = [ch(result.rule_length_m[i]) for i in rows]
+    tallest = max((max(h) + e for h, e in zip(hs, d, strict=True)), default=1.0)
+    x0, x1 = min(c0s, default=0.0), max(c1s, default=1.0)
+    if x1 <= x0:
+        x1 = x0 + 1.0
+    top = Panel(60, 44, 925, 230, x0, x1, 0.0, tallest * 1.32 + 0.1)
+    low = max(max(lengths, default=1.0), max(rules, default=1.0))
+    bottom = Panel(60, 290, 925, 130, x0, x1, 0.0, low * 1.4 + 0.1)
+    body = [f'<text x="60" y="18" class="title">{escape(title)}</text>']
+    for k, i in enumerate(rows):
+        verdict = result.verdict[i]
+        left, right = top.x(c0s[k]), top.x(c1s[k])
+        body.append(
+            f'<rect class="v-{verdict}" x="{_n(left)}" y="{_n(top.top)}" '
+            f'width="{_n(max(right - left, 0.3))}" height="{_n(top.height)}"/>'
+        )
+    body.append(top.axes(None, f"height ({m})"))
+    body.append(top.path([[(c0s[k], hs[k][0]), (c1s[k], hs[k][1])] for k in range(len(rows))], "h"))
+    body.append(
+        top.path(
+            [[(c0s[k], hs[k][0] + d[k]), (c1s[k], hs[k][1] + d[k])] for k in range(len(rows))],
+            "hd",
+        )
     )
-    return _png(fig)
+    for k, i in enumerate(rows):
+        if top.x(c1s[k]) - top.x(c0s[k]) >= LETTER_ROOM_PX:
+            y = max(hs[k]) + d[k]
+            mid = (c0s[k] + c1s[k]) / 2
+            body.append(
+                f'<text x="{_n(top.x(mid))}" y="{_n(top.y(y) - 3)}" class="small" '
+                f'text-anchor="middle">{VERDICT_LETTER[result.verdict[i]]}</text>'
+            )
+    body.append(_legend_long(top))
+    body.append(bottom.axes(f"chainage ({m})", f"L ({m})", grid_x=c0s))
+    body.append(
+        bottom.path([[(c0s[k], lengths[k]), (c1s[k], lengths[k])] for k in range(len(rows))], "len")
+    )
+    body.append(
+        bottom.path([[(c0s[k], rules[k]), (c1s[k], rules[k])] for k in range(len(rows))], "rule")
+    )
+    lx, ly = bottom.left + 8, bottom.top + bottom.height - 10
+    body.append(
+        f'<path class="len" d="M{_n(lx)},{_n(ly)}h22"/><text x="{_n(lx + 28)}" y="{_n(ly + 3)}" '
+        f'class="small">screened L</text><path class="rule" d="M{_n(lx + 110)},{_n(ly)}h22"/>'
+        f'<text x="{_n(lx + 138)}" y="{_n(ly + 3)}" class="small">rule-of-thumb L</text>'
+    )
+    return svg(1000, 460, f"long section of {title}", body)
+
+
+def _legend_long(panel: Panel) -> str:
+    x, y = panel.left + 8, panel.top + 12
+    out = [
+        f'<path class="h" d="M{_n(x)},{_n(y)}h22"/><text x="{_n(x + 28)}" y="{_n(y + 3)}" '
+        'class="small">exposed height</text>',
+        f'<path class="hd" d="M{_n(x + 120)},{_n(y)}h22"/><text x="{_n(x + 148)}" '
+        f'y="{_n(y + 3)}" class="small">design height (with embedment)</text>',
+    ]
+    for k, v in enumerate(VERDICT_COLOUR):
+        px = x + 330 + 110 * k
+        out.append(
+            f'<rect class="v-{v}" x="{_n(px)}" y="{_n(y - 5)}" width="18" height="10"/>'
+            f'<text x="{_n(px + 24)}" y="{_n(y + 3)}" class="small">{v} ({VERDICT_LETTER[v]})</text>'
+        )
+    return "".join(out)
 
 
 CIRCLE_KEYS = (("circle_x_m", "circle_y_m", "circle_r_m"), ("centre_x_m", "centre_y_m", "radius_m"))
@@ -170,17 +176,35 @@ def max_tension_line(seg: Segment, height_m: float) -> tuple[list[float], list[f
     return [0.0, run], [0.0, height_m]
 
 
-def cross_section_png(
-    corridor: Corridor, result: CorridorResult, i: int, display: Display
-) -> bytes:
-    """Cross-section of segment ``i`` at its tallest end."""
+CIRCLE_CLASSES = ("c0", "c1", "c2")
+XS_WIDTH, XS_HEIGHT = 640, 400
+"""Largest size of a cross-section in pixels (a flat drawing is made less tall)."""
+
+
+def _circle_runs(xc, yc, r, big_h, d, beta, toe) -> list[list[tuple[float, float]]]:
+    """The lower half of a slip circle where it lies below the ground, as runs of points."""
+    t = np.linspace(np.pi, 2 * np.pi, 121)
+    x, y = xc + r * np.cos(t), yc + r * np.sin(t)
+    below = y <= _ground_m(x, big_h, d, beta, toe) + 1e-9
+    runs, run = [], []
+    for xi, yi, ok in zip(x.tolist(), y.tolist(), below.tolist(), strict=True):
+        if ok:
+            run.append((xi, yi))
+        elif run:
+            runs.append(run)
+            run = []
+    if run:
+        runs.append(run)
+    return runs
+
+
+def cross_section_svg(corridor: Corridor, result: CorridorResult, i: int, display: Display) -> str:
+    """Cross-section of segment ``i`` at its tallest end, to scale."""
     seg = corridor.segments[i]
-    s = lambda v: display.value(v, "m")  # noqa: E731
     unit = display.label("m")
     big_h = float(result.design_height_m[i])
     d = float(result.embedment_m[i])
     length = float(result.length_m[i])
-    fig, ax = _figure(7.0, 4.4, {"left": 0.1, "right": 0.97, "top": 0.92, "bottom": 0.12})
     front = max(3.0, 0.6 * big_h)
     back = length + max(3.0, 0.8 * big_h)
     beta = math.tan(math.radians(seg.backslope_deg))
@@ -190,102 +214,99 @@ def cross_section_png(
     deep = -0.35 * big_h - (big_h if toe > 0.0 else 0.0)
     arcs = []
     for name, xc, yc, r in slip_circles(result, i):
-        t = np.linspace(np.pi, 2 * np.pi, 361)  # the lower half: where a slip surface runs
-        x, y = xc + r * np.cos(t), yc + r * np.sin(t)
-        y = np.where(y <= _ground_m(x, big_h, d, beta, toe) + 1e-9, y, np.nan)
-        if np.isfinite(y).any():
-            arcs.append((name, x, y))
-            front = max(front, -float(np.nanmin(np.where(np.isfinite(y), x, np.nan))) + 0.5)
-            back = max(back, float(np.nanmax(np.where(np.isfinite(y), x, np.nan))) + 0.5)
-            deep = min(deep, float(np.nanmin(y)) - 0.5)
-    # soils: foundation (its top is the ground in front, the base behind), reinforced
-    # zone, retained fill behind it and above it under a backslope
-    xf = np.linspace(-front, 0.0, 80)
-    ground_front = _ground_m(xf, big_h, d, beta, toe)
-    xa = np.concatenate([xf, [0.0, back]])
-    ax.fill_between(
-        s(xa), s(deep), s(np.concatenate([ground_front, [0.0, 0.0]])), color="#d6d0c4", lw=0
-    )
-    xb = np.linspace(0.0, back, 40)
-    ax.fill_between(
-        s(xb), s(np.where(xb < length, big_h, 0.0)), s(big_h + beta * xb), color="#efece6", lw=0
-    )
-    ax.add_patch(_rect(0, 0, s(length), s(big_h), ZONE_COLOUR))
-    ax.plot(s(xb), s(big_h + beta * xb), color="#555555", lw=1)
-    ax.plot(s(xf), s(ground_front), color="#555555", lw=1)
-    ax.plot([0, 0], [0, s(big_h)], color="#333333", lw=4, solid_capstyle="butt")  # facing
-    ax.add_patch(_rect(s(-0.15), s(-0.15), s(0.45), s(0.15), "#999999"))  # levelling pad
-    # layers and the line of maximum tension
+        runs = _circle_runs(xc, yc, r, big_h, d, beta, toe)
+        if runs:
+            arcs.append((name, runs, r))
+            xs = [p[0] for run in runs for p in run]
+            front = max(front, -min(xs) + 0.5)
+            back = max(back, max(xs) + 0.5)
+            deep = min(deep, min(p[1] for run in runs for p in run) - 0.5)
+    top_y = big_h * 1.35 + beta * back * 0.5
+    # to scale: the box shrinks to the drawing's proportions inside the figure
+    room_w, room_h = XS_WIDTH - 70, XS_HEIGHT - 80
+    scale = min(room_w / (front + back), room_h / (top_y - deep))
+    w, h = (front + back) * scale, (top_y - deep) * scale
+    v = lambda x: display.value(x, "m")  # noqa: E731 - a local unit helper
+    p = Panel(60 + (room_w - w) / 2, 34, w, h, v(-front), v(back), v(deep), v(top_y))
+
+    def pts(xs, ys) -> list[tuple[float, float]]:
+        return [(v(a), v(b)) for a, b in zip(xs, ys, strict=True)]
+
+    # ground in front: level at the embedment, a bench, then the toe slope (exact corners)
+    corners = [-front, 0.0, -BENCH_M]
+    if toe > 0.0:
+        corners.append(-BENCH_M - big_h / toe)
+    xf = np.array(sorted(c for c in set(corners) if -front <= c <= 0.0))
+    gf = _ground_m(np.minimum(xf, -1e-12), big_h, d, beta, toe)  # at the face: still in front
+    crest = big_h + beta * back
+    body = [
+        p.polygon(pts([*xf, 0.0, back, back, -front], [*gf, 0.0, 0.0, deep, deep]), "fnd"),
+        p.polygon(pts([0.0, back, back, length, length], [big_h, crest, 0, 0, big_h]), "ret"),
+        p.polygon(pts([0, length, length, 0], [0, 0, big_h, big_h]), "zone"),
+        p.path([pts([0.0, back], [big_h, crest]), pts(xf, gf)], "gl"),
+        p.polygon(pts([-0.15, 0.3, 0.3, -0.15], [-0.15, -0.15, 0.0, 0.0]), "pad"),
+        p.path([pts([0, 0], [0, big_h])], "face"),
+    ]
     lay = result.layers
     mask = lay.mask[i]
-    ys = big_h - lay.depth_m[i][mask]
-    la = lay.active_length_m[i][mask]
+    ys = (big_h - lay.depth_m[i][mask]).tolist()
+    la = lay.active_length_m[i][mask].tolist()
     names = result.grade_names[i]
-    grades = lay.grade_index[i][mask]
+    grades = lay.grade_index[i][mask].tolist()
+    body.append(p.path([pts([0.0, length], [y, y]) for y in ys], "lay"))
     for k, (y, g) in enumerate(zip(ys, grades, strict=True)):
-        ax.plot([0, s(length)], [s(y), s(y)], color=LAYER_COLOUR, lw=1.3)
         if k == 0 or grades[k - 1] != g:  # name the grade where it starts (top down)
             label = names[g] if g >= 0 else "none strong enough"
-            ax.text(s(length) + s(0.1), s(y), label, fontsize=6, va="center", color=LAYER_COLOUR)
+            body.append(p.text(v(length + 0.1), v(y), label, "gr"))
     lx, ly = max_tension_line(seg, big_h)
-    ax.plot(
-        s(np.array(lx)),
-        s(np.array(ly)),
-        color="#8a3b2e",
-        lw=1,
-        ls="--",
-        label="line of maximum tension",
+    body.append(p.path([pts(lx, ly)], "mt"))
+    body.append(
+        '<path class="la" d="'
+        + "".join(f"M{p.pt(v(a), v(b))}h0" for a, b in zip(la, ys, strict=True))
+        + '"/>'
     )
-    ax.plot(s(la), s(ys), "o", ms=3, color="#8a3b2e", label="La at each layer (screen)")
-    # loads and water
     q = seg.surcharge_kpa + float(result.traffic_kpa[i])
     if q > 0:
-        for x in np.linspace(0.3, back - 0.3, 7):
+        arrows = []
+        for x in np.linspace(0.3, back - 0.3, 7).tolist():
             yt = big_h + beta * x
-            ax.annotate(
-                "",
-                (s(x), s(yt)),
-                (s(x), s(yt + 0.12 * big_h)),
-                arrowprops={"arrowstyle": "->", "lw": 0.8},
-            )
-        text = f"q = {display.format(q, 'kPa')}"
-        ax.text(
-            s(back / 2), s(big_h + beta * back / 2 + 0.15 * big_h), text, ha="center", fontsize=7
-        )
+            arrows.append(f"M{p.pt(v(x), v(yt + 0.12 * big_h))}L{p.pt(v(x), v(yt))}")
+        body.append(f'<path class="q" d="{"".join(arrows)}"/>')
+        mid = back / 2
+        words = f"q = {display.format(q, 'kPa')}"
+        body.append(p.text(v(mid), v(big_h + beta * mid + 0.15 * big_h), words, "small", "middle"))
+    legend = []
     if seg.foundation.water_depth_m < 0.35 * big_h:
         yw = -seg.foundation.water_depth_m
-        ax.plot(
-            [s(-front), s(back)],
-            [s(yw), s(yw)],
-            color="#2b6cb0",
-            lw=1,
-            ls="-.",
-            label="water table",
+        body.append(p.path([pts([-front, back], [yw, yw])], "wt"))
+        legend.append(("wt", "water table"))
+    px_per_unit = p.width / (p.x1 - p.x0)  # the same on both axes: drawn to scale
+    for (name, runs, r), cls in zip(arcs, CIRCLE_CLASSES, strict=False):
+        radius = _n(v(r) * px_per_unit)
+        # each run is one arc of the circle's lower half, left to right (sweep 0 on screen)
+        d = "".join(
+            f"M{p.pt(v(run[0][0]), v(run[0][1]))}A{radius},{radius} 0 0 0 "
+            f"{p.pt(v(run[-1][0]), v(run[-1][1]))}"
+            for run in runs
+            if len(run) >= 2
         )
-    for (name, xc, yc, r), colour in zip(
-        slip_circles(result, i), ("#6b3fa0", "#2f7f6f", "#444444"), strict=False
-    ):
-        t = np.linspace(np.pi, 2 * np.pi, 361)  # the lower half: where a slip surface runs
-        x, y = xc + r * np.cos(t), yc + r * np.sin(t)
-        y = np.where(y <= _ground_m(x, big_h, d, beta, toe) + 1e-9, y, np.nan)
-        ax.plot(s(x), s(y), lw=1.2, color=colour, label=f"critical {name} circle")
-    ax.set_xlim(s(-front), s(back))
-    ax.set_ylim(s(deep), s(big_h * 1.35 + beta * back * 0.5))
-    ax.set_aspect("equal", adjustable="box")
-    ax.set_xlabel(f"from the face ({unit})")
-    ax.set_ylabel(f"above the base ({unit})")
+        body.append(f'<path class="{cls}" d="{d}"/>')
+        legend.append((cls, f"critical {name} circle"))
+    body.append(p.axes(f"from the face ({unit})", f"above the base ({unit})"))
     cdr = float(result.min_cdr[i])
-    ax.set_title(
+    title = (
         f"{seg.id}: {result.verdict[i]}; H = {display.format(big_h, 'm')}, "
-        f"L = {display.format(length, 'm')}, governing {result.governing[i]} (CDR {cdr_text(cdr)})",
-        loc="left",
-        fontsize=9,
+        f"L = {display.format(length, 'm')}, governing {result.governing[i]} (CDR {cdr_text(cdr)})"
     )
-    ax.legend(fontsize=6, loc="upper left")  # the air in front of the wall is empty
-    return _png(fig)
-
-
-def _rect(x: float, y: float, w: float, h: float, colour: str):
-    from matplotlib.patches import Rectangle
-
-    return Rectangle((x, y), w, h, facecolor=colour, edgecolor="#888888", lw=0.6)
+    body.append(f'<text x="60" y="20" class="title">{escape(title)}</text>')
+    # legend in the air in front of the wall: the shared entries, then this figure's own
+    gx, gy = p.left + 6, p.top + 4
+    body.append(f'<use href="#fig-xs-legend" x="{_n(gx)}" y="{_n(gy)}"/>')
+    for k, (cls, words) in enumerate(legend):
+        y = gy + 38 + 15 * k
+        body.append(
+            f'<path class="{cls}" d="M{_n(gx + 2)},{_n(y)}h22"/>'
+            f'<text x="{_n(gx + 30)}" y="{_n(y + 3)}" class="small">{escape(words)}</text>'
+        )
+    height = round(p.top + p.height + 46)  # the drawing's own proportions, no empty band
+    return svg(XS_WIDTH, height, f"cross-section of {seg.id}", body)

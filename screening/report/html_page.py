@@ -1,17 +1,18 @@
-"""One self-contained HTML report: styles inline, figures embedded as base64 PNG."""
+"""One self-contained HTML report: one stylesheet, figures as inline SVG sharing its styles
+and symbols (no images, nothing fetched)."""
 
 from __future__ import annotations
 
-import base64
 from html import escape
 
 from screening import CAUTION
 from screening.report import tables
 from screening.report.assumptions import assumptions
 from screening.report.data import ReportData
-from screening.report.figures import VERDICT_COLOUR, cross_section_png, long_section_png, walls
+from screening.report.figures import VERDICT_COLOUR, cross_section_svg, long_section_svg, walls
 from screening.report.handover import handover, inputs_table
 from screening.report.mechanism_figure import mechanism_figure_html
+from screening.report.svg import FIGURE_CSS, shared_defs
 from screening.report.tables import Table
 
 STYLE = """
@@ -24,16 +25,17 @@ th { background: #f1efe9; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; }
 caption { text-align: left; font-weight: 600; padding: 0.3em 0; }
 .note { color: #555; font-size: 12px; margin-top: -0.8em; }
-figure { margin: 1em 0; } figure img { max-width: 100%; border: 1px solid #ddd; }
+figure { margin: 1em 0; }
 figcaption { color: #555; font-size: 12px; }
 nav ul { columns: 2; } .meta { color: #555; }
+td.v-clear { background: #5b9e7a55; } td.v-marginal { background: #e0b04a55; } td.v-refer { background: #c4563f55; }
 """
 
 
 def _cell(text: str, header: str) -> str:
     cls = ""
     if text in VERDICT_COLOUR:
-        cls = f' style="background:{VERDICT_COLOUR[text]}55"'
+        cls = f' class="v-{text}"'
     elif _numeric(text):
         cls = ' class="num"'
     return f"<td{cls}>{escape(text)}</td>"
@@ -54,12 +56,14 @@ def table_html(t: Table) -> str:
     return f"<table><caption>{escape(t.title)}</caption><thead><tr>{head}</tr></thead><tbody>\n{body}\n</tbody></table>{note}"
 
 
-def _img(png: bytes, alt: str, caption: str) -> str:
-    b64 = base64.b64encode(png).decode("ascii")
-    return (
-        f'<figure><img alt="{escape(alt)}" src="data:image/png;base64,{b64}">'
-        f"<figcaption>{escape(caption)}</figcaption></figure>"
-    )
+def _figure(svg: str, caption: str) -> str:
+    return f"<figure>{svg}<figcaption>{escape(caption)}</figcaption></figure>"
+
+
+def _cross_section_heading(data: ReportData) -> str:
+    if data.figures == "all":
+        return "Cross-sections of every segment"
+    return "Cross-sections of referred and marginal segments"
 
 
 def render_html(data: ReportData) -> str:
@@ -76,7 +80,7 @@ def render_html(data: ReportData) -> str:
     sections = [
         ("summary", "Summary"),
         ("long-section", "Long sections"),
-        ("cross-sections", "Cross-sections of referred and marginal segments"),
+        ("cross-sections", _cross_section_heading(data)),
         ("segments", "Segments"),
         ("checks", "Checks"),
         ("quantities", "Quantities and rough cost"),
@@ -101,22 +105,23 @@ def render_html(data: ReportData) -> str:
         add(f"<p>{escape(c.note)}</p>")
 
     add('<h2 id="long-section">Long sections</h2>')
+    add(shared_defs())
     for wall, rows in walls(c).items():
-        png = long_section_png(c, r, rows, wall, data.display)
         add(
-            _img(
-                png,
-                f"long section of {wall}",
+            _figure(
+                long_section_svg(c, r, rows, wall, data.display),
                 f"{wall}: exposed and design height, screened L, verdict by segment.",
             )
         )
 
-    add('<h2 id="cross-sections">Cross-sections of referred and marginal segments</h2>')
-    if not data.flagged:
+    add(f'<h2 id="cross-sections">{escape(_cross_section_heading(data))}</h2>')
+    if data.figures == "none":
+        add("<p>No cross-sections in this report (asked for none).</p>")
+    elif not data.flagged and data.figures == "flagged":
         add("<p>Every segment is clear.</p>")
     for i in data.cross_sections:
-        png = cross_section_png(c, r, i, data.display)
-        add(_img(png, f"cross-section of {r.ids[i]}", f"{r.ids[i]}: {'; '.join(r.reasons[i])}"))
+        svg = cross_section_svg(c, r, i, data.display)
+        add(_figure(svg, f"{r.ids[i]}: {'; '.join(r.reasons[i])}"))
         add(mechanism_figure_html(c, r, i))
 
     add('<h2 id="segments">Segments</h2>')
@@ -165,6 +170,6 @@ def render_html(data: ReportData) -> str:
     body = "\n".join(parts)
     return (
         '<!doctype html>\n<html lang="en"><head><meta charset="utf-8">'
-        f"<title>{escape(c.name)}: screening report</title><style>{STYLE}</style></head>"
+        f"<title>{escape(c.name)}: screening report</title><style>{STYLE}{FIGURE_CSS}</style></head>"
         f"<body>\n{body}\n</body></html>\n"
     )

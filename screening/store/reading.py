@@ -138,8 +138,9 @@ def _corridor(
     if not isinstance(raw_segments, list):
         raise root.error("segment", "write each segment as a [[segment]] table")
     segments, wheres = [], []
+    known: dict[Any, Any] = {}
     for i, raw in enumerate(raw_segments):
-        seg, where = _segment(i, raw, defaults, wall, presets, source, smap)
+        seg, where = _segment(i, raw, defaults, wall, presets, source, smap, known)
         segments.append(seg)
         wheres.append(where)
     check_unique_ids(tuple(segments), wheres)
@@ -178,7 +179,10 @@ def _segment(
     presets: Presets,
     source: str,
     smap: SourceMap,
+    known: dict[Any, Any] | None = None,
 ) -> tuple[model.Segment, Where]:
+    """Segment number ``i + 1``; ``known`` keeps the values read from tables already met in
+    this file (a corridor repeats the same fill or reinforcement table on many segments)."""
     first = Where(source, segment=f"number {i + 1}", section=("segment", i), smap=smap)
     tab = table(raw, None, first)
     sid = tab.get("id")
@@ -190,7 +194,21 @@ def _segment(
     for key in REQUIRED:
         if key not in tab:
             raise where.error(key, f"missing (every segment needs {', '.join(REQUIRED)})")
-    values = {k: parse_field(k, v, where, presets) for k, v in tab.items() if k != "result"}
+    known = {} if known is None else known
+    values = {}
+    for key, raw_value in tab.items():
+        if key == "result":
+            continue
+        if isinstance(raw_value, dict):
+            # A table that read without a problem once reads the same again: only where a
+            # message points differs, and a table met before raised none. repr tells TOML's
+            # values apart (true from 1, 1 from 1.0, -0.0 from 0.0, "1" from 1).
+            memo = (key, repr(raw_value))
+            if memo not in known:
+                known[memo] = parse_field(key, raw_value, where, presets)
+            values[key] = known[memo]
+        else:
+            values[key] = parse_field(key, raw_value, where, presets)
     for key in DEFAULT_KEYS:
         if key not in values and key not in ("spacing_m", "wall"):
             values[key] = getattr(defaults, key)

@@ -77,6 +77,21 @@ def _value(name: str, value: Any, presets: Presets) -> Any:
     return value
 
 
+def _value_once(name: str, value: Any, presets: Presets, known: dict[Any, Any] | None) -> Any:
+    """``_value``, made once per distinct value. Segments then share one table: nothing
+    writes into it (``to_builtin`` copies the whole document before it is laid out)."""
+    if known is None or not dataclasses.is_dataclass(value):
+        return _value(name, value, presets)
+    try:
+        memo = (name, value)
+        made = known.get(memo)
+    except TypeError:  # a value holding a dict is not hashable
+        return _value(name, value, presets)
+    if made is None:
+        made = known[memo] = _value(name, value, presets)
+    return made
+
+
 def _document(corridor: model.Corridor, result: Any, presets: Presets) -> dict[str, Any]:
     doc: dict[str, Any] = {"schema": model.SCHEMA}
     rows: dict[str, int] = {}
@@ -112,8 +127,10 @@ def _document(corridor: model.Corridor, result: Any, presets: Presets) -> dict[s
         doc["rules"] = rules
     if getattr(corridor, "rates", None):
         doc["rates"] = dict(corridor.rates)  # the file's own unit rates, as written
+    ratios = result.length_ratio if result is not None else None  # a property: once
+    known: dict[Any, Any] = {}
     doc["segment"] = [
-        _segment_table(s, d, corridor.default_wall, presets, result, rows.get(s.id))
+        _segment_table(s, d, corridor.default_wall, presets, result, rows.get(s.id), ratios, known)
         for s in corridor.segments
     ]
     if result is not None:
@@ -133,7 +150,11 @@ def _segment_table(
     presets: Presets,
     result: Any,
     row: int | None,
+    ratios: Any = None,
+    known: dict[Any, Any] | None = None,
 ) -> dict[str, Any]:
+    """The table of one segment; ``known`` keeps the tables already made for values met on
+    earlier segments (many segments share a fill or a reinforcement)."""
     out: dict[str, Any] = {}
     for name in FIELD_NAMES:
         value = getattr(seg, name)
@@ -149,13 +170,15 @@ def _segment_table(
             if value:
                 out[name] = value
         elif value != getattr(d, name):
-            out[name] = _value(name, value, presets)
+            out[name] = _value_once(name, value, presets, known)
     if row is not None:
         out["result"] = {
             "verdict": result.verdict[row],
             "governing": result.governing[row],
             "length_m": round(float(result.length_m[row]), 2),
-            "length_ratio": round(float(result.length_ratio[row]), 3),
+            "length_ratio": round(
+                float((result.length_ratio if ratios is None else ratios)[row]), 3
+            ),
             "min_cdr": cdr_cut(float(result.min_cdr[row]), 3),
             "length_set_by": result.length_set_by[row],
             "reasons": list(result.reasons[row]),
