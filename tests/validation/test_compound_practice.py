@@ -21,7 +21,7 @@ import itertools
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from screening.engine import screen
@@ -295,6 +295,7 @@ def test_screening_search_agrees_with_a_brute_force_search(changes) -> None:
 
 
 @settings(max_examples=12, deadline=None)
+@example(height=7.3511, ratio=0.9446, strength=75.5406, more=2.3784, tangent=True)
 @given(
     height=st.floats(3.0, 9.0),
     ratio=st.floats(0.7, 1.1),
@@ -306,15 +307,19 @@ def test_a_stronger_grade_never_lowers_the_compound_cdr(height, ratio, strength,
     """Property (common practice, no source): stronger layers never make a wall less stable.
 
     Exactly on any one circle (the strong layers' critical circle is at least as safe with
-    them as with the weak ones), and for the searched minimum within the search's accuracy
-    (1 % of a brute-force search: test_screening_search_agrees_with_a_brute_force_search)."""
+    them as with the weak ones), and for the searched minimum within the search's accuracy:
+    each searched minimum may sit up to ~1-2 % above the true least factor (measured against
+    the fine search: bench/README, "Accuracy"), and the two searches take different paths,
+    so the weak wall's minimum can be overestimated more than the strong one's. Measured on
+    300 random draws of this test's ranges: 14 below -0.5 %, the worst -1.11 % (the example
+    above, geosynthetic layers); hence 2 %."""
     base = dataclasses.replace(
         wall(height=height, length=ratio * height, rupture=strength), tangent=np.array([tangent])
     )
     stronger = dataclasses.replace(base, layer_rupture_kn_m=base.layer_rupture_kn_m * more)
     weak = compound_check(base, "lrfd", LRFD_PHI)
     strong = compound_check(stronger, "lrfd", LRFD_PHI)
-    assert strong.compound.cdr[0] >= weak.compound.cdr[0] * (1 - 0.01)
+    assert strong.compound.cdr[0] >= weak.compound.cdr[0] * (1 - 0.02)
     if strong.compound.found[0]:
         e, x, a = (np.array([[v]]) for v in strong.compound.params[0])
         on_circle = [_plain_factor_with_layers(inp, e, x, a)[0] for inp in (base, stronger)]
