@@ -27,7 +27,7 @@ from screening.engine.arrays import build_arrays
 from screening.engine.mechanism.adapter import MechanismCase, mechanism_cases
 from screening.engine.mechanism.flags import mechanism_flag, mechanism_where
 from screening.engine.mechanism.pool import run_in_processes
-from screening.engine.mechanism.solve import FIRST_SLOPE, strength_factor
+from screening.engine.mechanism.solve import strength_factor
 from screening.engine.result import CorridorResult, FloatArray
 from screening.model import Corridor, FactorSet
 from screening.model.errors import EngineError, WallscreenError
@@ -233,13 +233,11 @@ def solve_segment(job: _Job) -> SegmentMechanism:
         if len(usable) == 1 and math.isfinite(job.circles_factor):
             # one case: the search starts from the circles' F (it only saves LPs; the
             # working grid alone decides the answer)
-            starts = [(job.circles_factor, FIRST_SLOPE)]
+            starts = [job.circles_factor]
         else:
             coarse = [strength_factor(c.section, nodes=job.coarse_nodes) for c in usable]
             least = min(r.factor for r in coarse)
-            starts = [
-                (r.factor, r.slope) if r.factor <= CASE_SHORTLIST * least else None for r in coarse
-            ]
+            starts = [r.factor if r.factor <= CASE_SHORTLIST * least else None for r in coarse]
         best = None
         for case, start in zip(usable, starts, strict=True):
             if start is None:

@@ -101,40 +101,80 @@ def _pick_solver(solver: str, nodes: int) -> tuple[str, int]:
 
 
 class _Runner:
-    """Solves the LP at successive strength factors, each from the previous mechanism's lines.
+    """Solves the LP at successive strength factors, each from the LP before.
 
     Within one LP the column generation re-solves hot (HiGHS keeps its basis as columns are
-    added); across strength factors every coefficient with tan phi' changes, and the old
-    basis proved a worse start than none, so only the lines are carried over."""
+    added). Across strength factors every coefficient with tan phi' changes, but the Newton
+    steps of the root search move F by a few per cent, so the next LP starts with every
+    column of the last one and its basis: 45 % fewer simplex iterations than the short lines
+    plus the last mechanism from scratch (bench_mechanism.py item 4; the old basis did not
+    pay when F moved by 20-40 % a step)."""
 
     def __init__(self, layout: Layout, solver: str, factored: tuple[str, ...]) -> None:
         self.layout = layout
         self.solver = solver
         self.factored = factored
         self.start = np.repeat(layout.lines.initial, 2)
+        self.warm = None
         self.history: list[tuple[float, float]] = []
         self.rounds = 0
         self.last: Outcome | None = None
         self.done: dict[float, Outcome] = {}
+        self.slopes: dict[float, float] = {}
 
     def __call__(self, strength_factor: float) -> float:
-        if strength_factor in self.done:
-            self.last, self.last_f = self.done[strength_factor], float(strength_factor)
+        """lambda at a strength factor (one LP, or the one already solved there)."""
+        f = float(strength_factor)
+        if f in self.done:
+            self.last, self.last_f = self.done[f], f
             return self.last.value
-        cols = columns(self.layout, strength_factor, self.factored)
+        cols = columns(self.layout, f, self.factored)
         if self.solver == "highspy":
-            out = solve_highs(cols, self.start)
+            out = solve_highs(cols, self.start, self.warm)
         else:
             out = solve_scipy(cols, self.start)
-        # the next LP starts from the short lines and this mechanism's lines only: a larger
-        # pool or this LP's basis made HiGHS slower at a new F (measured, bench_mechanism.py)
-        self.start = (out.multipliers > 0) | np.repeat(self.layout.lines.initial, 2)
+        self.start = out.in_model | (out.multipliers > 0)
+        self.warm = out.basis if WARM_START else None
         self.rounds += out.rounds
-        self.history.append((float(strength_factor), out.value))
+        self.history.append((f, out.value))
         self.last = out
-        self.last_f = float(strength_factor)
-        self.done[strength_factor] = out
+        self.last_f = f
+        self.done[f] = out
         return out.value
+
+    def point(self, strength_factor: float) -> tuple[float, float]:
+        """(lambda, k) at a strength factor: k = -d log lambda / d log F of the optimal
+        mechanism (:func:`_slope`), NaN where lambda is 0 or infinite."""
+        f = float(strength_factor)
+        lam = self(f)
+        if f not in self.slopes:
+            self.slopes[f] = _slope(self.layout, f, self.factored, self.done[f])
+        return lam, self.slopes[f]
+
+
+WARM_START = True
+"""Carry the last LP's columns and basis to the next strength factor (``_Runner``)."""
+SLOPE_STEP = 1e-4
+"""Relative step in F of the central difference in :func:`_slope`."""
+
+
+def _slope(layout: Layout, f: float, factored: tuple[str, ...], out: Outcome) -> float:
+    """k = -d log lambda / d log F at F = f from one LP, without solving another.
+
+    Sensitivity of an LP optimum (the envelope theorem): with the optimal multipliers p and
+    row duals y held, d lambda / dF = sum_j p_j d(c_j - A_j^T y)/dF over the columns, whose
+    coefficients are smooth in F (tan phi'/F, c'/F and the layer holds/F); a central
+    difference of the reduced costs gives it. The LP's own lambda(F) has kinks where the
+    optimal basis changes and steps where a frictional mechanism starts to work for nothing,
+    so this is the slope of the current mechanism: the root search uses it for Newton steps
+    and keeps a bracket for the rest."""
+    lam = out.value
+    if not (0.0 < lam < LAMBDA_CAP) or out.dual is None:
+        return float("nan")
+    up = columns(layout, f * (1.0 + SLOPE_STEP), factored).reduced_cost(out.dual)
+    down = columns(layout, f * (1.0 - SLOPE_STEP), factored).reduced_cost(out.dual)
+    dlam_df = float(out.multipliers @ (up - down)) / (2.0 * SLOPE_STEP * f)
+    return -f / lam * dlam_df
 
 
 def _mechanism(layout: Layout, out: Outcome, strength_factor: float) -> Mechanism:
@@ -211,59 +251,13 @@ def load_factor(
     return _result(run, "load factor", lam, t0)
 
 
-def strength_factor(
-    model: MechanismSection | Problem,
-    *,
-    nodes: int = DEFAULT_NODES,
-    solver: str = "auto",
-    rtol: float = 3e-3,
-    coarse_nodes: int | None = None,
-    start: tuple[float, float] | None = None,
-) -> MechanismResult:
-    """Strength reduction factor F with lambda(F) = 1 on the gravity loads (upper bound).
-
-    c', tan phi', cu, the long-term strength, the pullout resistance and the facing
-    connection of every layer are all divided by F: the same global factor on every resisting
-    term as the slip-circle check, where the layer forces join the resisting moment that F
-    divides, so the two checks compare like with like; pullout is itself frictional.
-    lambda(F) is monotone but not smooth (a step where c' = 0: no mechanism below some F,
-    free collapse above), so F is found by a bracketing search (:func:`_find_root`): steps
-    from the slope of log lambda against log F while the root is not bracketed, then
-    interpolation kept inside the bracket, bisection where lambda is 0 or infinite. Each LP
-    starts from the lines of the one before. F = 0: even at F = 1/64 the section collapses
-    (for example a cohesionless vertical face with no layers).
-
-    ``coarse_nodes``: first find F on a grid of that many nodes (cheap) and start the search
-    on the fine grid from it and its slope: two to four fine LPs instead of five or six
-    (bench_mechanism.py). ``start``: (F, slope) of such a coarse answer already at hand
-    (``MechanismResult.factor`` and ``.slope``). The fine grid alone decides the answer.
-    """
-    t0 = time.perf_counter()
-    problem = _problem(model)
-    solver, nodes = _pick_solver(solver, nodes)
-    if start is None and coarse_nodes:
-        coarse = strength_factor(problem, nodes=coarse_nodes, solver=solver, rtol=COARSE_RTOL)
-        if coarse.factor == 0.0:
-            return replace(coarse, seconds=time.perf_counter() - t0)
-        start = (coarse.factor, coarse.slope)
-    guess, slope, first_step = 1.0, FIRST_SLOPE, STEP_RANGE[1]
-    if start is not None:
-        guess, slope, first_step = float(start[0]), float(start[1]), 1.0 + 4.0 * COARSE_RTOL
-    run = _Runner(build_layout(problem, nodes), solver, GRAVITY)
-    root, at, slope = _find_root(run, guess, slope, rtol, first_step)
-    if not np.isfinite(root):
-        raise EngineError(
-            f"mechanism check: no mechanism forms even with strengths divided by {F_MAX:g}"
-        )
-    run(at)  # the mechanism reported is the one found at the last F evaluated near the root
-    return replace(_result(run, "strength factor", root, t0), slope=slope)
-
-
-FIRST_SLOPE = 3.0
-"""Guess of -d log lambda / d log F before two points give it: lambda ~ 1/F for purely
-cohesive strength, faster for frictional (dilation falls with tan phi'/F); 3 landed near the
-root on the bench walls (measured)."""
+RTOL = 5e-3
+"""Tolerance of F: the search stops at an LP whose Newton step to the root is at most this
+share of F, and reports the root that step gives (a screening cross-check: 0.5 % is well
+inside the grid's own bias; the Newton answer is usually far closer, bench item 4)."""
 COARSE_RTOL = 1e-2
+FIRST_SLOPE = 3.0
+"""k = -d log lambda / d log F where an LP gives none (lambda 0 or infinite) yet."""
 COLLAPSE_STEP = 1.1
 """Step down in F from a collapse (lambda = 0: no slope to go by) before the root is
 bracketed; the start is usually within 10 % of the root (coarse grid or slip circles)."""
@@ -272,63 +266,125 @@ STEP_RTOL = 1e-2
 starts to do work for nothing): bisection only narrows a step, so it stops at 1 % and
 reports the stable end (the lower F)."""
 SLOPE_RANGE = (0.5, 12.0)
-STEP_RANGE = (1.02, 1.6)
-"""Smallest and largest step of F (as a ratio) while the root is not yet bracketed."""
+MAX_STEP = 1.6
+"""Largest step of F (as a ratio) while the root is not yet bracketed."""
+INNER = 0.05
+"""A Newton step inside a bracket must land this share (of log F) inside either end."""
+ROOT_STEPS = 40
 
 
-def _find_root(
-    run, f0: float, slope: float, rtol: float, first_step: float = 1.6
-) -> tuple[float, float, float]:
+def strength_factor(
+    model: MechanismSection | Problem,
+    *,
+    nodes: int = DEFAULT_NODES,
+    solver: str = "auto",
+    rtol: float = RTOL,
+    coarse_nodes: int | None = None,
+    start: float | None = None,
+) -> MechanismResult:
+    """Strength reduction factor F with lambda(F) = 1 on the gravity loads (upper bound).
+
+    c', tan phi', cu, the long-term strength, the pullout resistance and the facing
+    connection of every layer are all divided by F: the same global factor on every resisting
+    term as the slip-circle check, where the layer forces join the resisting moment that F
+    divides, so the two checks compare like with like; pullout is itself frictional.
+    lambda(F) is monotone but not smooth (a step where c' = 0: no mechanism below some F,
+    free collapse above), so F is found by a safeguarded Newton search (:func:`_find_root`):
+    Newton steps on log lambda against log F with the slope each LP gives by itself
+    (:func:`_slope`), kept inside a bracket once there is one, bisection where lambda is 0 or
+    infinite. Each LP starts from the lines of the one before. F = 0: even at F = 1/64 the
+    section collapses (for example a cohesionless vertical face with no layers).
+
+    ``start``: a guess of F (the slip circles' factor, or a coarse grid's answer); the
+    search begins there instead of at F = 1. ``coarse_nodes``: first find F on a grid of that
+    many nodes and start from it. Either only saves LPs: the working grid alone decides the
+    answer, to ``rtol``.
+    """
+    t0 = time.perf_counter()
+    problem = _problem(model)
+    solver, nodes = _pick_solver(solver, nodes)
+    if start is None and coarse_nodes:
+        coarse = strength_factor(problem, nodes=coarse_nodes, solver=solver, rtol=COARSE_RTOL)
+        if coarse.factor == 0.0:
+            return replace(coarse, seconds=time.perf_counter() - t0)
+        start = coarse.factor
+    run = _Runner(build_layout(problem, nodes), solver, GRAVITY)
+    root, at, slope = _find_root(run, 1.0 if start is None else float(start), rtol)
+    if not np.isfinite(root):
+        raise EngineError(
+            f"mechanism check: no mechanism forms even with strengths divided by {F_MAX:g}"
+        )
+    run(at)  # the mechanism reported is the one found at the last F evaluated near the root
+    return replace(_result(run, "strength factor", root, t0), slope=slope)
+
+
+def _newton(point) -> float:
+    """The root that the point's own slope points to (NaN without a slope)."""
+    f, lam, k = point
+    return f * lam ** (1.0 / k) if np.isfinite(k) else float("nan")
+
+
+def _find_root(run, f0: float, rtol: float) -> tuple[float, float, float]:
     """(F, F evaluated last near it, slope) with lambda(F) = 1; (0, ., .) when even F_MIN
     collapses, (inf, ., .) when nothing collapses up to F_MAX.
 
-    lambda ~ F^-k locally, so log lambda is nearly linear in log F: a point with
-    |log lambda| <= k rtol is within rtol of the root, which is then F lambda^(1/k).
-    ``first_step`` caps the first move from ``f0`` (small when ``f0`` comes from a coarse
-    grid: the fine root is within a few per cent of it, and a step in lambda is then
-    bracketed closely).
+    lambda ~ F^-k locally and each LP gives its own k (:func:`_slope`), so from a point the
+    root is near F lambda^(1/k) (a Newton step on log lambda against log F); a point whose
+    step is at most ``rtol`` ends the search with that root. Until the root is bracketed the
+    steps are Newton steps capped at MAX_STEP (COLLAPSE_STEP down from a collapse); inside a
+    bracket, the Newton step of the end nearer lambda = 1 where it lands inside the bracket,
+    else the secant of log lambda between the ends, else (an end at lambda 0 or infinite:
+    no slope to go by) the geometric midpoint. A bracket of a step narrowed to STEP_RTOL
+    reports its stable end.
     """
-    lo = hi = None  # (F, lambda) with lambda >= 1 (stable) / < 1 (collapses)
-    last = None
+    lo = hi = None  # (F, lambda, k) with lambda >= 1 (stable) / < 1 (collapses)
+    slope = FIRST_SLOPE
     f = float(np.clip(f0, F_MIN, F_MAX))
-    for step_no in range(ROOT_STEPS):
-        cap = first_step if step_no == 0 else STEP_RANGE[1]
-        lam = min(run(f), LAMBDA_CAP)
+    for _ in range(ROOT_STEPS):
+        lam, k = run.point(f)
+        lam = min(lam, LAMBDA_CAP)
+        smooth = 0.0 < lam < LAMBDA_CAP and np.isfinite(k)
+        k = float(np.clip(k, *SLOPE_RANGE)) if smooth else float("nan")
+        if smooth:
+            slope = k
+            if abs(np.log(lam)) <= k * rtol:
+                return f * lam ** (1.0 / k), f, k
+        here = (f, lam, k)
         if lam >= 1.0:
-            lo = (f, lam) if lo is None or f > lo[0] else lo
+            lo = here if lo is None or f > lo[0] else lo
         else:
-            hi = (f, lam) if hi is None or f < hi[0] else hi
-        if last is not None and lam > 0.0 and last[1] > 0.0 and abs(f - last[0]) > 0.0:
-            k = -np.log(lam / last[1]) / np.log(f / last[0])
-            if np.isfinite(k):
-                slope = float(np.clip(k, *SLOPE_RANGE))
-        last = (f, lam)
-        if 0.0 < lam < LAMBDA_CAP and abs(np.log(lam)) <= slope * rtol:
-            return f * lam ** (1.0 / slope), f, slope
+            hi = here if hi is None or f < hi[0] else hi
         if lo is not None and hi is not None:
             ratio = hi[0] / lo[0]
-            if ratio - 1.0 <= (max(rtol, STEP_RTOL) if hi[1] == 0.0 else rtol):
+            edge = hi[1] == 0.0 or lo[1] >= LAMBDA_CAP
+            if ratio - 1.0 <= (max(rtol, STEP_RTOL) if edge else rtol):
                 return lo[0], lo[0], slope
-            if hi[1] > 0.0 and lo[1] < LAMBDA_CAP:
-                k = np.log(lo[1] / hi[1]) / np.log(ratio)
-                t = np.log(lo[1]) / k / np.log(ratio) if k > 0 else 0.5
-                t = float(np.clip(t, 0.1, 0.9))
-            else:
-                t = 0.5
-            f = lo[0] * ratio**t
+            f = _inside(lo, hi, ratio)
         elif lo is not None:
             if f >= F_MAX:
                 return np.inf, f, slope
-            step = lam ** (1.0 / slope) * (1.0 + 2.0 * rtol) if lam < LAMBDA_CAP else STEP_RANGE[1]
-            f = min(f * float(np.clip(step, STEP_RANGE[0], cap)), F_MAX)
+            step = _newton(here) / f if smooth else MAX_STEP
+            f = min(f * float(np.clip(step, 1.0, MAX_STEP)), F_MAX)
         else:
             if f <= F_MIN:
                 return 0.0, f, slope
-            step = (1.0 / lam) ** (1.0 / slope) * (1.0 + 2.0 * rtol) if lam > 0 else COLLAPSE_STEP
-            f = max(f / float(np.clip(step, STEP_RANGE[0], cap)), F_MIN)
+            step = f / _newton(here) if smooth else COLLAPSE_STEP
+            f = max(f / float(np.clip(step, 1.0, MAX_STEP)), F_MIN)
     raise EngineError(
         f"mechanism check: the strength factor did not settle in {ROOT_STEPS} linear programmes"
     )
 
 
-ROOT_STEPS = 40
+def _inside(lo, hi, ratio: float) -> float:
+    """The next F inside a bracket (``_find_root``)."""
+    low, high = lo[0] * ratio**INNER, lo[0] * ratio ** (1.0 - INNER)
+    ends = sorted((e for e in (lo, hi) if np.isfinite(e[2])), key=lambda e: abs(np.log(e[1])))
+    for end in ends:
+        guess = _newton(end)
+        if low <= guess <= high:
+            return guess
+    if hi[1] > 0.0 and lo[1] < LAMBDA_CAP:
+        k = np.log(lo[1] / hi[1]) / np.log(ratio)
+        t = float(np.clip(np.log(lo[1]) / k / np.log(ratio), 0.1, 0.9)) if k > 0 else 0.5
+        return lo[0] * ratio**t
+    return lo[0] * ratio**0.5
