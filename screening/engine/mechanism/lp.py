@@ -39,6 +39,15 @@ NO_MECHANISM_COST = 1e7
 """Cost M of the artificial column (lambda at or above it: no mechanism)."""
 REDUCED_COST_TOL = 1e-7
 MAX_ROUNDS = 60
+MULTIPLIER_CAP = 1e3
+"""Upper bound on every plastic multiplier in the highspy LP. The work of the factored loads
+is 1, so a mechanism's multipliers are of the order of 1/(its gravity work): ~1e-3 on the
+walls. A collapse (lambda <= 0), unbounded without the cap, then ends as an optimum at the cap
+with a negative objective, which the dual simplex reaches in a third to a half of the
+iterations it needs to prove an LP unbounded (bench_mechanism.py item 4); with the cap inactive
+the optimum, its duals and the pricing are those of the LP without it (an LP optimum inside
+the box is optimal without the box). A positive optimum touching the cap raises it x1000 and
+solves again."""
 
 
 @dataclass(frozen=True)
@@ -118,7 +127,9 @@ class Outcome:
     """Row duals of the final LP (they price every candidate at >= 0)."""
 
 
-def _unbounded(cols: Columns, in_model: np.ndarray, rounds: int, seconds: float, solver: str):
+def _unbounded(
+    cols: Columns, in_model: np.ndarray, rounds: int, seconds: float, solver: str, iterations=0
+):
     """The outcome of an unbounded LP: collapse whatever the load factor (lambda = 0).
 
     The LP is always feasible (the artificial column), so unbounded means a combination of
@@ -127,7 +138,7 @@ def _unbounded(cols: Columns, in_model: np.ndarray, rounds: int, seconds: float,
     No positive factor on the factored loads holds the section, and with more candidate
     lines the minimum can only fall, so the answer over all candidates is the same.
     """
-    return Outcome(0.0, np.zeros(cols.n), in_model, rounds, 0, seconds, solver, None, None)
+    return Outcome(0.0, np.zeros(cols.n), in_model, rounds, iterations, seconds, solver, None, None)
 
 
 COLLAPSE_TOL = 1e-9
@@ -191,7 +202,8 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
     )
     order = [np.flatnonzero(start)]
     in_model = start.copy()
-    _add(h, cols, order[0])
+    cap = MULTIPLIER_CAP
+    _add(h, cols, order[0], cap)
     if warm is not None:
         _set_warm_basis(h, warm, order[0])
     iterations = 0
@@ -209,21 +221,29 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
             h.run()
             status = h.getModelStatus()
         if status in unbounded:
-            return _unbounded(cols, in_model, rounds + 1, time.perf_counter() - t0, "highspy")
+            seconds = time.perf_counter() - t0
+            return _unbounded(cols, in_model, rounds + 1, seconds, "highspy", iterations)
         if status != highspy.HighsModelStatus.kOptimal:
             raise _status_error(h.modelStatusToString(status))
         iterations += int(h.getInfo().simplex_iteration_count)
+        objective = h.getInfo().objective_function_value
+        x = np.asarray(h.getSolution().col_value)
+        if objective > COLLAPSE_TOL and x.size > 1 and x[1:].max() >= cap * (1.0 - 1e-9):
+            cap = _raise_cap(h, cap)
+            continue
         rounds += 1
         dual = np.asarray(h.getSolution().row_dual)
-        if _collapsed(h.getInfo().objective_function_value, h.getSolution().col_value[0]):
-            out = _unbounded(cols, in_model, rounds, time.perf_counter() - t0, "highspy")
+        if _collapsed(objective, x[0]):
+            out = _unbounded(
+                cols, in_model, rounds, time.perf_counter() - t0, "highspy", iterations
+            )
             # keep the collapsing mechanism's lines: the next LP starts from them
             out.multipliers[np.concatenate(order)] = np.asarray(h.getSolution().col_value)[1:]
             return out
         new = _select(cols, cols.reduced_cost(dual), in_model, _batch(int(in_model.sum())))
         if new.size == 0 or rounds >= MAX_ROUNDS:
             break
-        _add(h, cols, new)
+        _add(h, cols, new, cap)
         in_model[new] = True
         order.append(new)
     x = np.asarray(h.getSolution().col_value)
@@ -278,7 +298,15 @@ def _set_warm_basis(h, warm, ids: np.ndarray) -> None:
     h.setBasis(basis)
 
 
-def _add(h, cols: Columns, idx: np.ndarray) -> None:
+def _raise_cap(h, cap: float) -> float:
+    """Every multiplier's upper bound x1000 (infinite past 1e12): see MULTIPLIER_CAP."""
+    cap = cap * 1e3 if cap < 1e12 else np.inf
+    n = h.getNumCol() - 1
+    h.changeColsBounds(n, np.arange(1, n + 1, dtype=np.int32), np.zeros(n), np.full(n, cap))
+    return cap
+
+
+def _add(h, cols: Columns, idx: np.ndarray, cap: float = np.inf) -> None:
     if idx.size == 0:
         return
     starts, index, values, nnz = cols.matrix(idx)
@@ -286,7 +314,7 @@ def _add(h, cols: Columns, idx: np.ndarray) -> None:
         idx.size,
         cols.cost[idx],
         np.zeros(idx.size),
-        np.full(idx.size, np.inf),
+        np.full(idx.size, cap),
         nnz,
         starts,
         index,

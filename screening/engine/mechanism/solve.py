@@ -134,7 +134,9 @@ class _Runner:
         else:
             out = solve_scipy(cols, self.start)
         self.start = out.in_model | (out.multipliers > 0)
-        self.warm = out.basis if WARM_START else None
+        if out.basis is not None or not WARM_START:
+            # a collapse has no basis to give: the last bounded LP's basis stays the start
+            self.warm = out.basis if WARM_START else None
         self.rounds += out.rounds
         self.history.append((f, out.value))
         self.last = out
