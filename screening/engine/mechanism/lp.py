@@ -144,11 +144,13 @@ def _unbounded(
 COLLAPSE_TOL = 1e-9
 
 
-def _collapsed(objective: float, artificial: float) -> bool:
-    """A restricted LP already at lambda <= 0 (a mechanism that the factored loads drive for
-    no dissipation): more lines can only lower it, so the answer is collapse; column
-    generation stops there (it would end unbounded or at 0 after costly rounds)."""
-    return artificial < 0.5 and objective <= COLLAPSE_TOL
+def _collapsed(objective: float) -> bool:
+    """A restricted LP already at an objective <= 0: collapse, and more lines can only
+    lower it, so column generation stops there. With the artificial column at a share a of
+    the work (cost 1e7 a >= 0) the real lines p then do work 1 - a at a cost below
+    -1e7 a: for a < 1 the mechanism p / (1 - a) has lambda < 0; for a = 1, p is a direction
+    of no work and negative cost, which makes the LP without the cap unbounded (_unbounded)."""
+    return objective <= COLLAPSE_TOL
 
 
 def _status_error(status: str) -> EngineError:
@@ -233,13 +235,11 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
             continue
         rounds += 1
         dual = np.asarray(h.getSolution().row_dual)
-        if _collapsed(objective, x[0]):
-            out = _unbounded(
-                cols, in_model, rounds, time.perf_counter() - t0, "highspy", iterations
-            )
-            # keep the collapsing mechanism's lines: the next LP starts from them
-            out.multipliers[np.concatenate(order)] = np.asarray(h.getSolution().col_value)[1:]
-            return out
+        if _collapsed(objective):
+            # no mechanism is reported (its multipliers sit at the cap); the next LP starts
+            # from every line of this one (in_model)
+            seconds = time.perf_counter() - t0
+            return _unbounded(cols, in_model, rounds, seconds, "highspy", iterations)
         new = _select(cols, cols.reduced_cost(dual), in_model, _batch(int(in_model.sum())))
         if new.size == 0 or rounds >= MAX_ROUNDS:
             break
