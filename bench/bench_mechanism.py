@@ -32,6 +32,7 @@ from __future__ import annotations
 import argparse
 import math
 import os
+import resource
 import time
 
 os.environ.setdefault("OMP_NUM_THREADS", "1")
@@ -233,12 +234,18 @@ def check_items(args) -> None:
             f"\n7. {len(corridor.segments)}-segment corridor: screened in {t_screen:.1f} s, "
             f"{rows.size} referred or marginal segments"
         )
+        before = resource.getrusage(resource.RUSAGE_CHILDREN)
+        cpu0 = time.process_time()
         mech = check.run_mechanism(corridor, result, workers=2)
+        after = resource.getrusage(resource.RUSAGE_CHILDREN)
+        workers_cpu = (after.ru_utime + after.ru_stime) - (before.ru_utime + before.ru_stime)
         per = np.array([s.seconds for s in mech.segments if s is not None])
         print(
-            f"mechanism check on {rows.size} segments, 2 processes: {mech.seconds:.1f} s "
-            f"(per segment in its process: mean {per.mean():.2f} s, max {per.max():.2f} s; "
-            f"{len(mech.flagged())} flagged)"
+            f"mechanism check on {rows.size} segments, 2 processes: {mech.seconds:.1f} s wall, "
+            f"CPU {workers_cpu:.1f} s in the workers + {time.process_time() - cpu0:.1f} s in "
+            f"the parent (per segment in its process: mean {per.mean():.2f} s, "
+            f"max {per.max():.2f} s wall; {len(mech.flagged())} flagged); "
+            f"load average {os.getloadavg()[0]:.1f}"
         )
 
 

@@ -289,13 +289,14 @@ def _set_warm_basis(h, warm, ids: np.ndarray) -> None:
     where = np.searchsorted(ids, old_ids)
     if where.size and (where.max() >= ids.size or not np.array_equal(ids[where], old_ids)):
         return
-    lower = highspy.HighsBasisStatus.kLower
-    new = [lower] * (ids.size + 1)
+    new = np.full(ids.size + 1, highspy.HighsBasisStatus.kLower, dtype=object)
     new[0] = status[0]
-    for k, j in enumerate(where):
-        new[1 + j] = status[1 + k]
-    basis.col_status = new
-    h.setBasis(basis)
+    new[1 + where] = np.array(status[1:], dtype=object)
+    start = highspy.HighsBasis()  # a new one: the old basis may start another LP too
+    start.col_status = new.tolist()
+    start.row_status = list(basis.row_status)
+    start.valid = True
+    h.setBasis(start)
 
 
 def _raise_cap(h, cap: float) -> float:

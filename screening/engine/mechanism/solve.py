@@ -173,9 +173,11 @@ def _slope(layout: Layout, f: float, factored: tuple[str, ...], out: Outcome) ->
     lam = out.value
     if not (0.0 < lam < LAMBDA_CAP) or out.dual is None:
         return float("nan")
-    up = columns(layout, f * (1.0 + SLOPE_STEP), factored).reduced_cost(out.dual)
-    down = columns(layout, f * (1.0 - SLOPE_STEP), factored).reduced_cost(out.dual)
-    dlam_df = float(out.multipliers @ (up - down)) / (2.0 * SLOPE_STEP * f)
+    used = np.flatnonzero(out.multipliers.reshape(-1, 2).sum(axis=1) > 0.0)
+    p = out.multipliers.reshape(-1, 2)[used].ravel()
+    up = columns(layout, f * (1.0 + SLOPE_STEP), factored, used).reduced_cost(out.dual)
+    down = columns(layout, f * (1.0 - SLOPE_STEP), factored, used).reduced_cost(out.dual)
+    dlam_df = float(p @ (up - down)) / (2.0 * SLOPE_STEP * f)
     return -f / lam * dlam_df
 
 
@@ -188,9 +190,8 @@ def _mechanism(layout: Layout, out: Outcome, strength_factor: float) -> Mechanis
     normal = layout.tan_phi[active] / strength_factor * total[active]
     size = np.hypot(shear, normal)
     scale = float(size.max()) if size.size else 1.0
-    cols = columns(layout, strength_factor, ())
-    cost = cols.cost.reshape(-1, 2)
-    dissipation = np.maximum(cost[active, 0] * p[active, 0] + cost[active, 1] * p[active, 1], 0)
+    cost = columns(layout, strength_factor, (), active).cost.reshape(-1, 2)
+    dissipation = np.maximum(cost[:, 0] * p[active, 0] + cost[:, 1] * p[active, 1], 0)
     share = dissipation / dissipation.sum() if dissipation.sum() > 0 else dissipation
     a, b = lines.a[active], lines.b[active]
     return Mechanism(
