@@ -9,6 +9,7 @@ discretisation error is on the unsafe side (METHOD.md in this folder gives the m
 from __future__ import annotations
 
 import time
+from collections.abc import Sequence
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -16,6 +17,15 @@ import numpy as np
 from screening.engine.mechanism.layout import Layout, build_layout, columns
 from screening.engine.mechanism.lp import Outcome, solve_highs, solve_scipy
 from screening.engine.mechanism.problem import DEAD, FOOTING, LIVE, WEIGHT, Problem
+from screening.engine.mechanism.root import (
+    COARSE_RTOL,
+    F_MAX,
+    F_MIN,
+    LAMBDA_CAP,
+    RTOL,
+    Root,
+    find_root,
+)
 from screening.engine.mechanism.section import MechanismSection, wall_problem
 from screening.model.errors import EngineError
 
@@ -26,9 +36,6 @@ UPPER_BOUND_NOTE = (
 DEFAULT_NODES = 350
 SCIPY_NODE_CAP = 220
 """Largest grid for the scipy fallback (cold re-solves: slower per round than highspy)."""
-F_MIN, F_MAX = 1.0 / 64.0, 64.0
-LAMBDA_CAP = 1e3
-"""lambda above this counts as 'no mechanism' in the root search on F."""
 GRAVITY = (WEIGHT, DEAD, LIVE)
 
 
@@ -254,28 +261,6 @@ def load_factor(
     return _result(run, "load factor", lam, t0)
 
 
-RTOL = 5e-3
-"""Tolerance of F: the search stops at an LP whose Newton step to the root is at most this
-share of F, and reports the root that step gives (a screening cross-check: 0.5 % is well
-inside the grid's own bias; the Newton answer is usually far closer, bench item 4)."""
-COARSE_RTOL = 1e-2
-FIRST_SLOPE = 3.0
-"""k = -d log lambda / d log F where an LP gives none (lambda 0 or infinite) yet."""
-COLLAPSE_STEP = 1.1
-"""Step down in F from a collapse (lambda = 0: no slope to go by) before the root is
-bracketed; the start is usually within 10 % of the root (coarse grid or slip circles)."""
-STEP_RTOL = 1e-2
-"""Tolerance on F where lambda steps from above 1 to 0 (c' = 0: a frictional mechanism
-starts to do work for nothing): bisection only narrows a step, so it stops at 1 % and
-reports the stable end (the lower F)."""
-SLOPE_RANGE = (0.5, 12.0)
-MAX_STEP = 1.6
-"""Largest step of F (as a ratio) while the root is not yet bracketed."""
-INNER = 0.05
-"""A Newton step inside a bracket must land this share (of log F) inside either end."""
-ROOT_STEPS = 40
-
-
 def strength_factor(
     model: MechanismSection | Problem,
     *,
@@ -292,7 +277,7 @@ def strength_factor(
     term as the slip-circle check, where the layer forces join the resisting moment that F
     divides, so the two checks compare like with like; pullout is itself frictional.
     lambda(F) is monotone but not smooth (a step where c' = 0: no mechanism below some F,
-    free collapse above), so F is found by a safeguarded Newton search (:func:`_find_root`):
+    free collapse above), so F is found by a safeguarded Newton search (``root.find_root``):
     Newton steps on log lambda against log F with the slope each LP gives by itself
     (:func:`_slope`), kept inside a bracket once there is one, bisection where lambda is 0 or
     infinite. Each LP starts from the lines of the one before. F = 0: even at F = 1/64 the
@@ -312,82 +297,49 @@ def strength_factor(
             return replace(coarse, seconds=time.perf_counter() - t0)
         start = coarse.factor
     run = _Runner(build_layout(problem, nodes), solver, GRAVITY)
-    root, at, slope = _find_root(run, 1.0 if start is None else float(start), rtol)
-    if not np.isfinite(root):
+    root = find_root(run, 1.0 if start is None else float(start), rtol)
+    return _strength_result(run, root, t0)
+
+
+def _strength_result(run: _Runner, root: Root, t0: float) -> MechanismResult:
+    if not np.isfinite(root.factor):
         raise EngineError(
             f"mechanism check: no mechanism forms even with strengths divided by {F_MAX:g}"
         )
-    run(at)  # the mechanism reported is the one found at the last F evaluated near the root
-    return replace(_result(run, "strength factor", root, t0), slope=slope)
+    run(root.at)  # the mechanism reported is the one found at the last F evaluated near the root
+    return replace(_result(run, "strength factor", root.factor, t0), slope=root.slope)
 
 
-def _newton(point) -> float:
-    """The root that the point's own slope points to (NaN without a slope)."""
-    f, lam, k = point
-    return f * lam ** (1.0 / k) if np.isfinite(k) else float("nan")
+def least_strength_factor(
+    models: Sequence[MechanismSection | Problem],
+    starts: Sequence[float | None],
+    *,
+    nodes: int = DEFAULT_NODES,
+    solver: str = "auto",
+    rtol: float = RTOL,
+    within: float = 1.0,
+) -> list[MechanismResult | None]:
+    """:func:`strength_factor` of each model whose F is within ``within`` times the least
+    of them, None for the others (their F is only known to be above that): the cases of one
+    segment, where only the least F matters (and those close to it, to rank them).
 
-
-def _find_root(run, f0: float, rtol: float) -> tuple[float, float, float]:
-    """(F, F evaluated last near it, slope) with lambda(F) = 1; (0, ., .) when even F_MIN
-    collapses, (inf, ., .) when nothing collapses up to F_MAX.
-
-    lambda ~ F^-k locally and each LP gives its own k (:func:`_slope`), so from a point the
-    root is near F lambda^(1/k) (a Newton step on log lambda against log F); a point whose
-    step is at most ``rtol`` ends the search with that root. Until the root is bracketed the
-    steps are Newton steps capped at MAX_STEP (COLLAPSE_STEP down from a collapse); inside a
-    bracket, the Newton step of the end nearer lambda = 1 where it lands inside the bracket,
-    else the secant of log lambda between the ends, else (an end at lambda 0 or infinite:
-    no slope to go by) the geometric midpoint. A bracket of a step narrowed to STEP_RTOL
-    reports its stable end.
-    """
-    lo = hi = None  # (F, lambda, k) with lambda >= 1 (stable) / < 1 (collapses)
-    slope = FIRST_SLOPE
-    f = float(np.clip(f0, F_MIN, F_MAX))
-    for _ in range(ROOT_STEPS):
+    One LP of each at its start (``starts``, None: F = 1) gives the root its own slope points
+    to; the searches run from the lowest of these, and each one after the first stops as soon
+    as an LP shows its F above ``within`` times the least so far (often that first LP)."""
+    t0 = time.perf_counter()
+    solver, nodes = _pick_solver(solver, nodes)
+    runs = [_Runner(build_layout(_problem(m), nodes), solver, GRAVITY) for m in models]
+    firsts = [float(np.clip(1.0 if s is None else s, F_MIN, F_MAX)) for s in starts]
+    guesses = []
+    for run, f in zip(runs, firsts, strict=True):
         lam, k = run.point(f)
-        lam = min(lam, LAMBDA_CAP)
-        smooth = 0.0 < lam < LAMBDA_CAP and np.isfinite(k)
-        k = float(np.clip(k, *SLOPE_RANGE)) if smooth else float("nan")
-        if smooth:
-            slope = k
-            if abs(np.log(lam)) <= k * rtol:
-                return f * lam ** (1.0 / k), f, k
-        here = (f, lam, k)
-        if lam >= 1.0:
-            lo = here if lo is None or f > lo[0] else lo
-        else:
-            hi = here if hi is None or f < hi[0] else hi
-        if lo is not None and hi is not None:
-            ratio = hi[0] / lo[0]
-            edge = hi[1] == 0.0 or lo[1] >= LAMBDA_CAP
-            if ratio - 1.0 <= (max(rtol, STEP_RTOL) if edge else rtol):
-                return lo[0], lo[0], slope
-            f = _inside(lo, hi, ratio)
-        elif lo is not None:
-            if f >= F_MAX:
-                return np.inf, f, slope
-            step = _newton(here) / f if smooth else MAX_STEP
-            f = min(f * float(np.clip(step, 1.0, MAX_STEP)), F_MAX)
-        else:
-            if f <= F_MIN:
-                return 0.0, f, slope
-            step = f / _newton(here) if smooth else COLLAPSE_STEP
-            f = max(f / float(np.clip(step, 1.0, MAX_STEP)), F_MIN)
-    raise EngineError(
-        f"mechanism check: the strength factor did not settle in {ROOT_STEPS} linear programmes"
-    )
-
-
-def _inside(lo, hi, ratio: float) -> float:
-    """The next F inside a bracket (``_find_root``)."""
-    low, high = lo[0] * ratio**INNER, lo[0] * ratio ** (1.0 - INNER)
-    ends = sorted((e for e in (lo, hi) if np.isfinite(e[2])), key=lambda e: abs(np.log(e[1])))
-    for end in ends:
-        guess = _newton(end)
-        if low <= guess <= high:
-            return guess
-    if hi[1] > 0.0 and lo[1] < LAMBDA_CAP:
-        k = np.log(lo[1] / hi[1]) / np.log(ratio)
-        t = float(np.clip(np.log(lo[1]) / k / np.log(ratio), 0.1, 0.9)) if k > 0 else 0.5
-        return lo[0] * ratio**t
-    return lo[0] * ratio**0.5
+        guesses.append(f * lam ** (1.0 / k) if np.isfinite(k) else (0.0 if lam == 0 else f))
+    least = np.inf
+    found: list[MechanismResult | None] = [None] * len(runs)
+    for i in np.argsort(guesses, kind="stable"):
+        root = find_root(runs[i], firsts[i], rtol, enough=within * least)
+        if root.above:
+            continue
+        found[i] = _strength_result(runs[i], root, t0)
+        least = min(least, root.factor)
+    return [r if r is not None and r.factor <= within * least else None for r in found]
