@@ -34,8 +34,9 @@ from screening.model import Corridor, FactorSet
 from screening.model.errors import EngineError, WallscreenError
 
 NODES = 250
-"""Working grid of the mechanism check: about 0.7 s a factor on this machine and within
-about 1 % of the 300-node answer (bench_mechanism.py; METHOD.md section 6 for its bias)."""
+"""Working grid of the mechanism check: about 0.2 s of CPU a factor on this machine from
+the circles' F, and within about 1 % of the 300-node answer (bench_mechanism.py; METHOD.md
+section 6 for its bias)."""
 COARSE_NODES = 100
 """Grid that ranks several cases of one segment (and starts their searches)."""
 CASE_SHORTLIST = 1.05

@@ -113,7 +113,7 @@ class _Runner:
     Within one LP the column generation re-solves hot (HiGHS keeps its basis as columns are
     added). Across strength factors every coefficient with tan phi' changes, but the Newton
     steps of the root search move F by a few per cent, so the next LP starts with every
-    column of the last one and its basis: 45 % fewer simplex iterations than the short lines
+    column of the last one and its basis: 52 % fewer simplex iterations than the short lines
     plus the last mechanism from scratch (bench_mechanism.py item 4; the old basis did not
     pay when F moved by 20-40 % a step)."""
 
