@@ -44,9 +44,42 @@ def probe_x(problem: Problem, nodes: Nodes) -> float:
     return 0.5 * (cols[j - 1] + cols[j])
 
 
+_GRIDS: dict[tuple, tuple[Nodes, Lines]] = {}
+GRIDS_KEPT = 4
+"""Grids kept for sections of the same geometry (the cases of one segment differ only in
+their soils' strengths and the water: the same nodes and lines serve them all)."""
+
+
+def _grid(problem: Problem, target_nodes: int) -> tuple[Nodes, Lines]:
+    """Nodes and candidate lines, which depend on the geometry only: the bands' outlines and
+    materials' places, the refinement, the layers' levels, held faces, footing and surface
+    load edges (the breaks), and the node count."""
+    key = (
+        problem.bands,
+        problem.refinement,
+        tuple(lay.level_m for lay in problem.layers),
+        problem.held_faces,
+        problem.footing,
+        tuple((s.x0_m, s.x1_m) for s in problem.surface_loads),
+        len(problem.materials),
+        int(target_nodes),
+    )
+    grid = _GRIDS.get(key)
+    if grid is None:
+        nodes = nodes_for_count(problem, target_nodes)
+        grid = (nodes, candidate_lines(problem, nodes))
+        for part in grid:  # shared between layouts: read-only
+            for value in vars(part).values():
+                if isinstance(value, np.ndarray):
+                    value.setflags(write=False)
+        while len(_GRIDS) >= GRIDS_KEPT:
+            _GRIDS.pop(next(iter(_GRIDS)))
+        _GRIDS[key] = grid
+    return grid
+
+
 def build_layout(problem: Problem, target_nodes: int) -> Layout:
-    nodes = nodes_for_count(problem, target_nodes)
-    lines = candidate_lines(problem, nodes)
+    nodes, lines = _grid(problem, target_nodes)
     mats = problem.materials
     cohesion = np.array([mats[m].cohesion_kpa for m in lines.material])
     tan_phi = np.tan(np.radians(np.array([mats[m].friction_deg for m in lines.material])))
