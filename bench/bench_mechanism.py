@@ -12,8 +12,9 @@ Prints:
    sand or clay foundations, some toe slopes and backslopes; the referred/marginal share of a
    300-segment corridor), total and per wall (target: the whole share <= 60 s on this
    2-core machine);
-4. the warm-start comparison behind the choice in solve.py: the wall's strength factor with
-   the previous LP's basis carried over and without;
+4. the choices of the root search and the LP starts on the same walls (CPU, LPs, and the
+   largest change of F against a tight search): as solve.py does; without the warm start
+   across F; without the multiplier cap (lp.MULTIPLIER_CAP); at the old 0.3 % tolerance;
 5. one factor as the mechanism check runs it (check.NODES with the coarse start), three
    times: nodes and seconds (target <= 1 s at 300-400 nodes);
 6. (--bias) the discretisation bias behind the flag's allowance: F of demo segments at the
@@ -32,6 +33,7 @@ from __future__ import annotations
 import argparse
 import math
 import os
+import resource
 import time
 
 os.environ.setdefault("OMP_NUM_THREADS", "1")
@@ -39,7 +41,6 @@ os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 
 import numpy as np  # noqa: E402
 
-from screening.engine.mechanism import solve as solve_module  # noqa: E402
 from screening.engine.mechanism.reference_problems import footing_problem  # noqa: E402
 from screening.engine.mechanism.section import (  # noqa: E402
     MechanismLayer,
@@ -105,13 +106,21 @@ def invented_walls(n: int, seed: int = 11) -> list[MechanismSection]:
     return walls
 
 
-def line(label: str, r, ref: float | None = None, scale: float = 1.0) -> str:
+def line(label: str, r, ref: float | None = None, scale: float = 1.0, cpu=None) -> str:
     value = scale * r.factor
     err = f"  error {100 * (value / ref - 1):+6.2f} %" if ref else ""
+    cpu = f"  CPU {cpu:6.3f} s" if cpu is not None else ""
     return (
         f"{label:<34} {value:9.4f}{err}  nodes {r.nodes:4d}  lines {r.candidate_lines:6d}"
-        f"  used {r.lines_used:5d}  LPs {r.lp_solves:2d}  {r.seconds:6.3f} s"
+        f"  used {r.lines_used:5d}  LPs {r.lp_solves:2d}  {r.seconds:6.3f} s{cpu}"
     )
+
+
+def timed(fn, *args, **kwargs):
+    """(fn(*args, **kwargs), CPU seconds of this process)."""
+    t0 = time.process_time()
+    out = fn(*args, **kwargs)
+    return out, time.process_time() - t0
 
 
 def main() -> None:
@@ -131,7 +140,9 @@ def main() -> None:
     print("1. one factor")
     print(line("Prandtl N_c (load factor)", load_factor(footing_problem(), nodes=args.nodes), NC))
     wall = invented_wall(6.0)
-    print(line("6 m wall (strength factor)", strength_factor(wall, nodes=args.nodes)))
+    for _ in range(3):
+        r, cpu = timed(strength_factor, wall, nodes=args.nodes)
+        print(line("6 m wall (strength factor, F0 = 1)", r, cpu=cpu))
     if not args.quick:
         print("\n2. convergence")
         for n in (150, 200, 300, 400, 600):
@@ -147,34 +158,45 @@ def main() -> None:
             print(line(f"6 m wall at ~{n} nodes", strength_factor(wall, nodes=n)))
     print(f"\n3. {args.walls} wall sections in sequence (one core)")
     t0 = time.perf_counter()
+    c0 = time.process_time()
     results = [strength_factor(w, nodes=args.nodes) for w in invented_walls(args.walls)]
     total = time.perf_counter() - t0
+    cpu = time.process_time() - c0
     times = np.array([r.seconds for r in results])
     print(
-        f"total {total:6.2f} s, per wall mean {times.mean():.3f} s, max {times.max():.3f} s, "
+        f"total {total:6.2f} s ({cpu:.2f} s CPU), per wall mean {times.mean():.3f} s, max {times.max():.3f} s, "
         f"nodes {min(r.nodes for r in results)}-{max(r.nodes for r in results)}, "
         f"F {min(r.factor for r in results):.3f}-{max(r.factor for r in results):.3f}"
     )
-    print("\n4. strength factor of the 6 m wall with and without the previous LP's basis")
-    print(line("lines only (as solve.py does)", strength_factor(wall, nodes=args.nodes)))
-    original = solve_module.solve_highs
-
-    def with_basis(cols, start, warm=None):
-        return original(cols, start, with_basis.basis)
-
-    with_basis.basis = None
-
-    def remember(cols, start, warm=None):
-        out = with_basis(cols, start)
-        with_basis.basis = out.basis
-        return out
-
-    solve_module.solve_highs = remember
-    try:
-        print(line("lines and last basis", strength_factor(wall, nodes=args.nodes)))
-    finally:
-        solve_module.solve_highs = original
+    print(f"\n4. the {args.walls} walls: what the root search and the LP starts give (CPU)")
+    search_items(invented_walls(args.walls), args.nodes)
     check_items(args)
+
+
+def search_items(walls, nodes: int) -> None:
+    """Each setting on the same walls: CPU, LPs, simplex iterations and the largest change of
+    F against a tight search (rtol 1e-5)."""
+    from screening.engine.mechanism import lp, solve
+
+    reference = [strength_factor(w, nodes=nodes, rtol=1e-5).factor for w in walls]
+    settings = {
+        "as solve.py (Newton, warm, cap)": {},
+        "no warm start across F": {"warm": False},
+        "no multiplier cap": {"cap": math.inf},
+        "rtol 0.3 % (was the default)": {"rtol": 3e-3},
+    }
+    for label, s in settings.items():
+        solve.WARM_START = s.get("warm", True)
+        lp.MULTIPLIER_CAP = s.get("cap", 1e3)
+        t0 = time.process_time()
+        rs = [strength_factor(w, nodes=nodes, rtol=s.get("rtol", solve.RTOL)) for w in walls]
+        cpu = time.process_time() - t0
+        dev = max(abs(r.factor / f - 1.0) for r, f in zip(rs, reference, strict=True) if f > 0)
+        print(
+            f"{label:<34} CPU {cpu:6.2f} s  LPs {sum(r.lp_solves for r in rs):4d}  "
+            f"rounds {sum(r.rounds for r in rs):4d}  largest change of F {100 * dev:.2f} %"
+        )
+    solve.WARM_START, lp.MULTIPLIER_CAP = True, 1e3
 
 
 def varied_corridor(n: int, seed: int = 5):
@@ -207,8 +229,11 @@ def check_items(args) -> None:
     print(f"\n5. one factor as the check runs it ({check.NODES} nodes, coarse start)")
     wall = invented_wall(6.0)
     for _ in range(3):
-        r = strength_factor(wall, nodes=check.NODES, coarse_nodes=check.COARSE_NODES)
-        print(line("6 m wall (check's grid)", r))
+        r, cpu = timed(strength_factor, wall, nodes=check.NODES, coarse_nodes=check.COARSE_NODES)
+        print(line("6 m wall (check's grid)", r, cpu=cpu))
+    for _ in range(3):
+        r, cpu = timed(strength_factor, wall, nodes=330, start=1.3)
+        print(line("6 m wall, 330 nodes, from F0 = 1.3", r, cpu=cpu))
     if args.bias:
         print("\n6. discretisation bias: demo segments, working grid against ~700 nodes")
         demo = store.load(demo_corridor_path())
@@ -233,12 +258,18 @@ def check_items(args) -> None:
             f"\n7. {len(corridor.segments)}-segment corridor: screened in {t_screen:.1f} s, "
             f"{rows.size} referred or marginal segments"
         )
+        before = resource.getrusage(resource.RUSAGE_CHILDREN)
+        cpu0 = time.process_time()
         mech = check.run_mechanism(corridor, result, workers=2)
+        after = resource.getrusage(resource.RUSAGE_CHILDREN)
+        workers_cpu = (after.ru_utime + after.ru_stime) - (before.ru_utime + before.ru_stime)
         per = np.array([s.seconds for s in mech.segments if s is not None])
         print(
-            f"mechanism check on {rows.size} segments, 2 processes: {mech.seconds:.1f} s "
-            f"(per segment in its process: mean {per.mean():.2f} s, max {per.max():.2f} s; "
-            f"{len(mech.flagged())} flagged)"
+            f"mechanism check on {rows.size} segments, 2 processes: {mech.seconds:.1f} s wall, "
+            f"CPU {workers_cpu:.1f} s in the workers + {time.process_time() - cpu0:.1f} s in "
+            f"the parent (per segment in its process: mean {per.mean():.2f} s, "
+            f"max {per.max():.2f} s wall; {len(mech.flagged())} flagged); "
+            f"load average {os.getloadavg()[0]:.1f}"
         )
 
 

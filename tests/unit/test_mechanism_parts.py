@@ -221,3 +221,46 @@ def test_importing_the_mechanism_check_loads_no_solver():
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.split() == ["False", "False"], out.stderr
+
+
+def test_slope_from_one_lp_matches_finite_differences():
+    """LP sensitivity (the envelope theorem, any LP text; common practice, no source): with
+    the optimal multipliers and duals held, d lambda / dF from one LP equals the slope of
+    lambda(F) measured by solving the LP again at F (1 +- 1 %), away from a kink."""
+    from screening.engine.mechanism.solve import GRAVITY, _Runner
+
+    run = _Runner(build_layout(wall_problem(_wall()), 150), "highspy", GRAVITY)
+    f = 1.1
+    lam, k = run.point(f)
+    assert 0.0 < lam < 1e3
+    up, down = run(f * 1.01), run(f / 1.01)
+    measured = -np.log(up / down) / np.log(1.01**2)
+    assert k == pytest.approx(measured, rel=0.05)
+
+
+def test_warm_start_and_multiplier_cap_keep_the_optimum():
+    """Any start of the simplex method ends at the same optimum (LP duality): the LP of a new
+    F started from the last LP's columns and basis, or with the multipliers capped, gives the
+    lambda of a cold, uncapped solve (scipy.optimize.linprog as the independent solver)."""
+    layout = build_layout(wall_problem(_wall()), 150)
+    start = np.repeat(layout.lines.initial, 2)
+    first = solve_highs(columns(layout, 1.0, ("weight", "dead", "live")), start)
+    cols = columns(layout, 1.05, ("weight", "dead", "live"))
+    warm = solve_highs(cols, first.in_model, first.basis)
+    cold = solve_scipy(cols, start)
+    assert warm.value == pytest.approx(cold.value, rel=1e-7)
+
+
+def test_the_race_over_cases_keeps_the_least_factor():
+    """least_strength_factor gives the least F of several sections as strength_factor gives
+    it for each (it only stops the others early): a stronger layer grade never lowers F
+    (upper-bound theorem), so the weak section's F is the least."""
+    from screening.engine.mechanism.solve import least_strength_factor, strength_factor
+
+    weak = _wall(layers=tuple(MechanismLayer(y, 15.0, 20.0, 15.0) for y in (0.375, 1.125)))
+    strong = _wall()
+    race = least_strength_factor([strong, weak], [None, None], nodes=150)
+    alone = strength_factor(weak, nodes=150)
+    assert race[0] is None
+    assert race[1].factor == pytest.approx(alone.factor, rel=1e-9)
+    assert strength_factor(strong, nodes=150).factor >= alone.factor

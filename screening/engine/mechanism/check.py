@@ -27,14 +27,16 @@ from screening.engine.arrays import build_arrays
 from screening.engine.mechanism.adapter import MechanismCase, mechanism_cases
 from screening.engine.mechanism.flags import mechanism_flag, mechanism_where
 from screening.engine.mechanism.pool import run_in_processes
-from screening.engine.mechanism.solve import FIRST_SLOPE, strength_factor
+from screening.engine.mechanism.root import COARSE_RTOL
+from screening.engine.mechanism.solve import least_strength_factor
 from screening.engine.result import CorridorResult, FloatArray
 from screening.model import Corridor, FactorSet
 from screening.model.errors import EngineError, WallscreenError
 
 NODES = 250
-"""Working grid of the mechanism check: about 0.7 s a factor on this machine and within
-about 1 % of the 300-node answer (bench_mechanism.py; METHOD.md section 6 for its bias)."""
+"""Working grid of the mechanism check: about 0.2 s of CPU a factor on this machine from
+the circles' F, and within about 1 % of the 300-node answer (bench_mechanism.py; METHOD.md
+section 6 for its bias)."""
 COARSE_NODES = 100
 """Grid that ranks several cases of one segment (and starts their searches)."""
 CASE_SHORTLIST = 1.05
@@ -230,26 +232,28 @@ def solve_segment(job: _Job) -> SegmentMechanism:
         why = job.cases[0].problem if job.cases else "not run: no case of the factor set"
         return _not_run(job, why, t0)
     try:
-        if len(usable) == 1 and math.isfinite(job.circles_factor):
-            # one case: the search starts from the circles' F (it only saves LPs; the
-            # working grid alone decides the answer)
-            starts = [(job.circles_factor, FIRST_SLOPE)]
+        guess = job.circles_factor if math.isfinite(job.circles_factor) else None
+        if len(usable) == 1:
+            # the search starts from the circles' F (it only saves LPs; the working grid
+            # alone decides the answer)
+            ranked = [(usable[0], guess)]
         else:
-            coarse = [strength_factor(c.section, nodes=job.coarse_nodes) for c in usable]
-            least = min(r.factor for r in coarse)
-            starts = [
-                (r.factor, r.slope) if r.factor <= CASE_SHORTLIST * least else None for r in coarse
-            ]
-        best = None
-        for case, start in zip(usable, starts, strict=True):
-            if start is None:
-                continue
-            fine = strength_factor(case.section, nodes=job.nodes, start=start)
-            if best is None or fine.factor < best[1].factor:
-                best = (case, fine)
+            # several cases: a coarse grid ranks them (its bias is alike for the cases of one
+            # section) and gives the fine searches their starts
+            coarse = least_strength_factor(
+                [c.section for c in usable],
+                [guess] * len(usable),
+                nodes=job.coarse_nodes,
+                rtol=COARSE_RTOL,
+                within=CASE_SHORTLIST,
+            )
+            ranked = [(c, r.factor) for c, r in zip(usable, coarse, strict=True) if r is not None]
+        fine = least_strength_factor(
+            [c.section for c, _ in ranked], [s for _, s in ranked], nodes=job.nodes
+        )
+        case, fine = next((c, r) for (c, _), r in zip(ranked, fine, strict=True) if r is not None)
     except WallscreenError as err:
         return _not_run(job, f"not run: {err}", t0)
-    case, fine = best
     flag, words = mechanism_flag(fine.factor, case.target, job.circles_factor)
     m = fine.mechanism
     jump = np.hypot(m.shear, m.normal)

@@ -214,15 +214,18 @@ def containment(problem: Problem, xa, ya, xb, yb) -> np.ndarray:
 
 
 def _along_free_surface(problem: Problem, nodes: Nodes, a, b) -> np.ndarray:
+    out = nodes.free[a] & nodes.free[b]
+    both = np.flatnonzero(out)
+    a, b = a[both], b[both]
     xm = 0.5 * (nodes.x_m[a] + nodes.x_m[b])
     ym = 0.5 * (nodes.y_m[a] + nodes.y_m[b])
-    both_free = nodes.free[a] & nodes.free[b]
     vertical = nodes.x_m[b] - nodes.x_m[a] <= TOL_M
     hi = ground_level(problem, xm)
     lo = np.minimum(ground_level(problem, xm, -1), ground_level(problem, xm, 1))
     on_top = np.abs(ym - hi) <= 1e-6
     on_step = vertical & (ym >= lo - 1e-6) & (ym <= hi + 1e-6) & (hi - lo > 1e-6)
-    return both_free & (on_top | on_step)
+    out[both] = on_top | on_step
+    return out
 
 
 def _primitive(nodes: Nodes, a: np.ndarray, b: np.ndarray) -> np.ndarray:
@@ -237,22 +240,22 @@ def _primitive(nodes: Nodes, a: np.ndarray, b: np.ndarray) -> np.ndarray:
     out = np.ones(a.size, dtype=bool)
     vertical = col[a] == col[b]
     out[vertical] = np.abs(rank[b[vertical]] - rank[a[vertical]]) == 1
-    nv = np.flatnonzero(~vertical)
+    # a node between the ends sits on a column strictly between theirs: test those columns
+    # only, one (line, column) pair each
+    nv = np.flatnonzero(~vertical & (np.abs(col[b] - col[a]) >= 2))
     if nv.size == 0:
         return out
     ca, cb = col[a[nv]], col[b[nv]]
-    cols = np.arange(nodes.columns_m.size)
-    for start in range(0, nv.size, 20000):
-        sl = slice(start, start + 20000)
-        c = cols[None, :]
-        between = (c > ca[sl, None]) & (c < cb[sl, None])
-        xa, ya = x[a[nv[sl]]][:, None], y[a[nv[sl]]][:, None]
-        xb, yb = x[b[nv[sl]]][:, None], y[b[nv[sl]]][:, None]
-        yq = ya + (nodes.columns_m[None, :] - xa) * (yb - ya) / (xb - xa)
-        q = c * span_y + (yq - y.min())
-        idx = np.clip(np.searchsorted(sorted_keys, q), 1, nodes.n - 1)
-        near = np.minimum(np.abs(sorted_keys[idx] - q), np.abs(sorted_keys[idx - 1] - q))
-        out[nv[sl]] = ~np.any(between & (near <= 1e-6), axis=1)
+    gaps = cb - ca - 1
+    which = np.repeat(np.arange(nv.size), gaps)
+    c = ca[which] + 1 + np.arange(which.size) - np.repeat(np.cumsum(gaps) - gaps, gaps)
+    xa, ya = x[a[nv]][which], y[a[nv]][which]
+    xb, yb = x[b[nv]][which], y[b[nv]][which]
+    yq = ya + (nodes.columns_m[c] - xa) * (yb - ya) / (xb - xa)
+    q = c * span_y + (yq - y.min())
+    idx = np.clip(np.searchsorted(sorted_keys, q), 1, nodes.n - 1)
+    near = np.minimum(np.abs(sorted_keys[idx] - q), np.abs(sorted_keys[idx - 1] - q))
+    out[nv] = np.bincount(which, weights=near <= 1e-6, minlength=nv.size) == 0
     return out
 
 
@@ -263,7 +266,12 @@ def candidate_lines(problem: Problem, nodes: Nodes) -> Lines:
     swap = (x[j] < x[i] - TOL_M) | ((np.abs(x[j] - x[i]) <= TOL_M) & (y[j] < y[i]))
     a = np.where(swap, j, i)
     b = np.where(swap, i, j)
-    within = containment(problem, x[a], y[a], x[b], y[b])
+    # a line lies in a material only if both its ends do: test the pairs that share one
+    node_in = containment(problem, x, y, x, y)
+    common = node_in[a] & node_in[b]
+    share = np.flatnonzero(np.any(common, axis=1))
+    a, b, common = a[share], b[share], common[share]
+    within = containment(problem, x[a], y[a], x[b], y[b]) & common
     keep = np.any(within, axis=1) & ~_along_free_surface(problem, nodes, a, b)
     a, b, within = a[keep], b[keep], within[keep]
     prim = _primitive(nodes, a, b)

@@ -44,9 +44,42 @@ def probe_x(problem: Problem, nodes: Nodes) -> float:
     return 0.5 * (cols[j - 1] + cols[j])
 
 
+_GRIDS: dict[tuple, tuple[Nodes, Lines]] = {}
+GRIDS_KEPT = 4
+"""Grids kept for sections of the same geometry (the cases of one segment differ only in
+their soils' strengths and the water: the same nodes and lines serve them all)."""
+
+
+def _grid(problem: Problem, target_nodes: int) -> tuple[Nodes, Lines]:
+    """Nodes and candidate lines, which depend on the geometry only: the bands' outlines and
+    materials' places, the refinement, the layers' levels, held faces, footing and surface
+    load edges (the breaks), and the node count."""
+    key = (
+        problem.bands,
+        problem.refinement,
+        tuple(lay.level_m for lay in problem.layers),
+        problem.held_faces,
+        problem.footing,
+        tuple((s.x0_m, s.x1_m) for s in problem.surface_loads),
+        len(problem.materials),
+        int(target_nodes),
+    )
+    grid = _GRIDS.get(key)
+    if grid is None:
+        nodes = nodes_for_count(problem, target_nodes)
+        grid = (nodes, candidate_lines(problem, nodes))
+        for part in grid:  # shared between layouts: read-only
+            for value in vars(part).values():
+                if isinstance(value, np.ndarray):
+                    value.setflags(write=False)
+        while len(_GRIDS) >= GRIDS_KEPT:
+            _GRIDS.pop(next(iter(_GRIDS)))
+        _GRIDS[key] = grid
+    return grid
+
+
 def build_layout(problem: Problem, target_nodes: int) -> Layout:
-    nodes = nodes_for_count(problem, target_nodes)
-    lines = candidate_lines(problem, nodes)
+    nodes, lines = _grid(problem, target_nodes)
     mats = problem.materials
     cohesion = np.array([mats[m].cohesion_kpa for m in lines.material])
     tan_phi = np.tan(np.radians(np.array([mats[m].friction_deg for m in lines.material])))
@@ -92,28 +125,36 @@ def _is_top(nodes: Nodes, idx: np.ndarray) -> np.ndarray:
     return nodes.y_m[idx] >= top[nodes.column[idx]] - 1e-9
 
 
-def columns(layout: Layout, strength_factor: float, factored: tuple[str, ...]) -> Columns:
-    """LP columns with every strength divided by ``strength_factor`` (two per line)."""
+def columns(
+    layout: Layout,
+    strength_factor: float,
+    factored: tuple[str, ...],
+    lines_at: np.ndarray | None = None,
+) -> Columns:
+    """LP columns with every strength divided by ``strength_factor`` (two per line);
+    ``lines_at``: only those lines (indices), in that order."""
     for kind in factored:
         if kind not in LOAD_KINDS:
             raise ValueError(f"unknown load kind {kind!r}; valid: {', '.join(LOAD_KINDS)}")
     lines = layout.lines
+    at = slice(None) if lines_at is None else np.asarray(lines_at)
+    n = lines.n if lines_at is None else at.size
     f = float(strength_factor)
-    tan_d = layout.tan_phi / f
+    tan_d = layout.tan_phi[at] / f
     sign = np.array([1.0, -1.0])[None, :]
-    cos, sin = lines.cos[:, None], lines.sin[:, None]
+    cos, sin = lines.cos[at][:, None], lines.sin[at][:, None]
     dx = sign * cos - tan_d[:, None] * sin
     dy = sign * sin + tan_d[:, None] * cos
-    stretch = extension_sign(lines)[:, None] * dx
-    dissipation = (layout.cohesion_kpa / f * lines.length_m)[:, None] + (layout.hold_kn_m / f)[
-        :, None
-    ] * np.maximum(stretch, 0.0)
-    factored_g = sum((layout.loads[k] for k in factored), np.zeros(lines.n))
-    fixed_g = sum((layout.loads[k] for k in LOAD_KINDS if k not in factored), np.zeros(lines.n))
+    stretch = extension_sign(lines)[at][:, None] * dx
+    dissipation = (layout.cohesion_kpa[at] / f * lines.length_m[at])[:, None] + (
+        layout.hold_kn_m[at] / f
+    )[:, None] * np.maximum(stretch, 0.0)
+    factored_g = sum((layout.loads[k][at] for k in factored), np.zeros(n))
+    fixed_g = sum((layout.loads[k][at] for k in LOAD_KINDS if k not in factored), np.zeros(n))
     work = -dy * factored_g[:, None]
-    fixed = -dy * fixed_g[:, None] + (layout.pore_kn_m * tan_d)[:, None]
-    ra = layout.node_row[lines.a]
-    rb = layout.node_row[lines.b]
+    fixed = -dy * fixed_g[:, None] + (layout.pore_kn_m[at] * tan_d)[:, None]
+    ra = layout.node_row[lines.a[at]]
+    rb = layout.node_row[lines.b[at]]
     two = np.ones((1, 2))
     return Columns(
         cost=(dissipation - fixed).ravel(),
@@ -122,8 +163,8 @@ def columns(layout: Layout, strength_factor: float, factored: tuple[str, ...]) -
         dy=dy.ravel(),
         row_a=(ra[:, None] * two).astype(np.int64).ravel(),
         row_b=(rb[:, None] * two).astype(np.int64).ravel(),
-        probe=(layout.probe[:, None] * two).ravel(),
-        length_m=np.repeat(lines.length_m, 2),
+        probe=(layout.probe[at][:, None] * two).ravel(),
+        length_m=np.repeat(lines.length_m[at], 2),
         n_rows=layout.n_rows,
         work_row=layout.work_row,
         probe_row=layout.probe_row,

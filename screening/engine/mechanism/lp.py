@@ -39,6 +39,15 @@ NO_MECHANISM_COST = 1e7
 """Cost M of the artificial column (lambda at or above it: no mechanism)."""
 REDUCED_COST_TOL = 1e-7
 MAX_ROUNDS = 60
+MULTIPLIER_CAP = 1e3
+"""Upper bound on every plastic multiplier in the highspy LP. The work of the factored loads
+is 1, so a mechanism's multipliers are of the order of 1/(its gravity work): ~1e-3 on the
+walls. A collapse (lambda <= 0), unbounded without the cap, then ends as an optimum at the cap
+with a negative objective, which the dual simplex reaches in a third to a half of the
+iterations it needs to prove an LP unbounded (bench_mechanism.py item 4); with the cap inactive
+the optimum, its duals and the pricing are those of the LP without it (an LP optimum inside
+the box is optimal without the box). A positive optimum touching the cap raises it x1000 and
+solves again."""
 
 
 @dataclass(frozen=True)
@@ -118,7 +127,9 @@ class Outcome:
     """Row duals of the final LP (they price every candidate at >= 0)."""
 
 
-def _unbounded(cols: Columns, in_model: np.ndarray, rounds: int, seconds: float, solver: str):
+def _unbounded(
+    cols: Columns, in_model: np.ndarray, rounds: int, seconds: float, solver: str, iterations=0
+):
     """The outcome of an unbounded LP: collapse whatever the load factor (lambda = 0).
 
     The LP is always feasible (the artificial column), so unbounded means a combination of
@@ -127,17 +138,19 @@ def _unbounded(cols: Columns, in_model: np.ndarray, rounds: int, seconds: float,
     No positive factor on the factored loads holds the section, and with more candidate
     lines the minimum can only fall, so the answer over all candidates is the same.
     """
-    return Outcome(0.0, np.zeros(cols.n), in_model, rounds, 0, seconds, solver, None, None)
+    return Outcome(0.0, np.zeros(cols.n), in_model, rounds, iterations, seconds, solver, None, None)
 
 
 COLLAPSE_TOL = 1e-9
 
 
-def _collapsed(objective: float, artificial: float) -> bool:
-    """A restricted LP already at lambda <= 0 (a mechanism that the factored loads drive for
-    no dissipation): more lines can only lower it, so the answer is collapse; column
-    generation stops there (it would end unbounded or at 0 after costly rounds)."""
-    return artificial < 0.5 and objective <= COLLAPSE_TOL
+def _collapsed(objective: float) -> bool:
+    """A restricted LP already at an objective <= 0: collapse, and more lines can only
+    lower it, so column generation stops there. With the artificial column at a share a of
+    the work (cost 1e7 a >= 0) the real lines p then do work 1 - a at a cost below
+    -1e7 a: for a < 1 the mechanism p / (1 - a) has lambda < 0; for a = 1, p is a direction
+    of no work and negative cost, which makes the LP without the cap unbounded (_unbounded)."""
+    return objective <= COLLAPSE_TOL
 
 
 def _status_error(status: str) -> EngineError:
@@ -191,7 +204,8 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
     )
     order = [np.flatnonzero(start)]
     in_model = start.copy()
-    _add(h, cols, order[0])
+    cap = MULTIPLIER_CAP
+    _add(h, cols, order[0], cap)
     if warm is not None:
         _set_warm_basis(h, warm, order[0])
     iterations = 0
@@ -209,21 +223,27 @@ def solve_highs(cols: Columns, start: np.ndarray, warm=None) -> Outcome:
             h.run()
             status = h.getModelStatus()
         if status in unbounded:
-            return _unbounded(cols, in_model, rounds + 1, time.perf_counter() - t0, "highspy")
+            seconds = time.perf_counter() - t0
+            return _unbounded(cols, in_model, rounds + 1, seconds, "highspy", iterations)
         if status != highspy.HighsModelStatus.kOptimal:
             raise _status_error(h.modelStatusToString(status))
         iterations += int(h.getInfo().simplex_iteration_count)
+        objective = h.getInfo().objective_function_value
+        x = np.asarray(h.getSolution().col_value)
+        if objective > COLLAPSE_TOL and x.size > 1 and x[1:].max() >= cap * (1.0 - 1e-9):
+            cap = _raise_cap(h, cap)
+            continue
         rounds += 1
         dual = np.asarray(h.getSolution().row_dual)
-        if _collapsed(h.getInfo().objective_function_value, h.getSolution().col_value[0]):
-            out = _unbounded(cols, in_model, rounds, time.perf_counter() - t0, "highspy")
-            # keep the collapsing mechanism's lines: the next LP starts from them
-            out.multipliers[np.concatenate(order)] = np.asarray(h.getSolution().col_value)[1:]
-            return out
+        if _collapsed(objective):
+            # no mechanism is reported (its multipliers sit at the cap); the next LP starts
+            # from every line of this one (in_model)
+            seconds = time.perf_counter() - t0
+            return _unbounded(cols, in_model, rounds, seconds, "highspy", iterations)
         new = _select(cols, cols.reduced_cost(dual), in_model, _batch(int(in_model.sum())))
         if new.size == 0 or rounds >= MAX_ROUNDS:
             break
-        _add(h, cols, new)
+        _add(h, cols, new, cap)
         in_model[new] = True
         order.append(new)
     x = np.asarray(h.getSolution().col_value)
@@ -269,16 +289,25 @@ def _set_warm_basis(h, warm, ids: np.ndarray) -> None:
     where = np.searchsorted(ids, old_ids)
     if where.size and (where.max() >= ids.size or not np.array_equal(ids[where], old_ids)):
         return
-    lower = highspy.HighsBasisStatus.kLower
-    new = [lower] * (ids.size + 1)
+    new = np.full(ids.size + 1, highspy.HighsBasisStatus.kLower, dtype=object)
     new[0] = status[0]
-    for k, j in enumerate(where):
-        new[1 + j] = status[1 + k]
-    basis.col_status = new
-    h.setBasis(basis)
+    new[1 + where] = np.array(status[1:], dtype=object)
+    start = highspy.HighsBasis()  # a new one: the old basis may start another LP too
+    start.col_status = new.tolist()
+    start.row_status = list(basis.row_status)
+    start.valid = True
+    h.setBasis(start)
 
 
-def _add(h, cols: Columns, idx: np.ndarray) -> None:
+def _raise_cap(h, cap: float) -> float:
+    """Every multiplier's upper bound x1000 (infinite past 1e12): see MULTIPLIER_CAP."""
+    cap = cap * 1e3 if cap < 1e12 else np.inf
+    n = h.getNumCol() - 1
+    h.changeColsBounds(n, np.arange(1, n + 1, dtype=np.int32), np.zeros(n), np.full(n, cap))
+    return cap
+
+
+def _add(h, cols: Columns, idx: np.ndarray, cap: float = np.inf) -> None:
     if idx.size == 0:
         return
     starts, index, values, nnz = cols.matrix(idx)
@@ -286,7 +315,7 @@ def _add(h, cols: Columns, idx: np.ndarray) -> None:
         idx.size,
         cols.cost[idx],
         np.zeros(idx.size),
-        np.full(idx.size, np.inf),
+        np.full(idx.size, cap),
         nnz,
         starts,
         index,

@@ -216,25 +216,3 @@ def ground_level(p: Problem, x: np.ndarray, side: int = 0) -> np.ndarray:
     xs = np.clip(x + side * eps, bands.x0.min(), bands.x1.max())
     inside = (xs[..., None] >= bands.x0) & (xs[..., None] <= bands.x1)
     return np.max(np.where(inside, bands.top(xs), -np.inf), axis=-1)
-
-
-def column_load(p: Problem, x: np.ndarray, y: np.ndarray) -> dict[str, np.ndarray]:
-    """Vertical load on the horizontal unit strip at (x, y) from everything above it (kPa):
-    the soil column up to the ground (``weight``) and the surface pressures by kind.
-
-    x must not sit on a band or load edge (the integrals use piece midpoints, see grid.py).
-    """
-    bands = p.band_arrays()
-    x = np.asarray(x, dtype=np.float64)
-    y = np.asarray(y, dtype=np.float64)
-    cov = bands.covers(x)
-    top = bands.top(x)
-    bottom = np.maximum(bands.bottom(x), y[..., None])
-    soil = np.sum(np.where(cov, bands.unit_weight * np.maximum(top - bottom, 0.0), 0.0), axis=-1)
-    out = {WEIGHT: soil, DEAD: np.zeros_like(x), LIVE: np.zeros_like(x), FOOTING: np.zeros_like(x)}
-    for s in p.surface_loads:
-        out[s.kind] = out[s.kind] + np.where((x > s.x0_m) & (x < s.x1_m), s.pressure_kpa, 0.0)
-    if p.footing is not None:
-        f = p.footing
-        out[FOOTING] = np.where((x > f.x0_m) & (x < f.x1_m), 1.0, 0.0)
-    return out

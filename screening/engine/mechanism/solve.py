@@ -9,6 +9,7 @@ discretisation error is on the unsafe side (METHOD.md in this folder gives the m
 from __future__ import annotations
 
 import time
+from collections.abc import Sequence
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -16,6 +17,15 @@ import numpy as np
 from screening.engine.mechanism.layout import Layout, build_layout, columns
 from screening.engine.mechanism.lp import Outcome, solve_highs, solve_scipy
 from screening.engine.mechanism.problem import DEAD, FOOTING, LIVE, WEIGHT, Problem
+from screening.engine.mechanism.root import (
+    COARSE_RTOL,
+    F_MAX,
+    F_MIN,
+    LAMBDA_CAP,
+    RTOL,
+    Root,
+    find_root,
+)
 from screening.engine.mechanism.section import MechanismSection, wall_problem
 from screening.model.errors import EngineError
 
@@ -26,9 +36,6 @@ UPPER_BOUND_NOTE = (
 DEFAULT_NODES = 350
 SCIPY_NODE_CAP = 220
 """Largest grid for the scipy fallback (cold re-solves: slower per round than highspy)."""
-F_MIN, F_MAX = 1.0 / 64.0, 64.0
-LAMBDA_CAP = 1e3
-"""lambda above this counts as 'no mechanism' in the root search on F."""
 GRAVITY = (WEIGHT, DEAD, LIVE)
 
 
@@ -101,40 +108,84 @@ def _pick_solver(solver: str, nodes: int) -> tuple[str, int]:
 
 
 class _Runner:
-    """Solves the LP at successive strength factors, each from the previous mechanism's lines.
+    """Solves the LP at successive strength factors, each from the LP before.
 
     Within one LP the column generation re-solves hot (HiGHS keeps its basis as columns are
-    added); across strength factors every coefficient with tan phi' changes, and the old
-    basis proved a worse start than none, so only the lines are carried over."""
+    added). Across strength factors every coefficient with tan phi' changes, but the Newton
+    steps of the root search move F by a few per cent, so the next LP starts with every
+    column of the last one and its basis: 52 % fewer simplex iterations than the short lines
+    plus the last mechanism from scratch (bench_mechanism.py item 4; the old basis did not
+    pay when F moved by 20-40 % a step)."""
 
     def __init__(self, layout: Layout, solver: str, factored: tuple[str, ...]) -> None:
         self.layout = layout
         self.solver = solver
         self.factored = factored
         self.start = np.repeat(layout.lines.initial, 2)
+        self.warm = None
         self.history: list[tuple[float, float]] = []
         self.rounds = 0
         self.last: Outcome | None = None
         self.done: dict[float, Outcome] = {}
+        self.slopes: dict[float, float] = {}
 
     def __call__(self, strength_factor: float) -> float:
-        if strength_factor in self.done:
-            self.last, self.last_f = self.done[strength_factor], float(strength_factor)
+        """lambda at a strength factor (one LP, or the one already solved there)."""
+        f = float(strength_factor)
+        if f in self.done:
+            self.last, self.last_f = self.done[f], f
             return self.last.value
-        cols = columns(self.layout, strength_factor, self.factored)
+        cols = columns(self.layout, f, self.factored)
         if self.solver == "highspy":
-            out = solve_highs(cols, self.start)
+            out = solve_highs(cols, self.start, self.warm)
         else:
             out = solve_scipy(cols, self.start)
-        # the next LP starts from the short lines and this mechanism's lines only: a larger
-        # pool or this LP's basis made HiGHS slower at a new F (measured, bench_mechanism.py)
-        self.start = (out.multipliers > 0) | np.repeat(self.layout.lines.initial, 2)
+        self.start = out.in_model | (out.multipliers > 0)
+        if out.basis is not None or not WARM_START:
+            # a collapse has no basis to give: the last bounded LP's basis stays the start
+            self.warm = out.basis if WARM_START else None
         self.rounds += out.rounds
-        self.history.append((float(strength_factor), out.value))
+        self.history.append((f, out.value))
         self.last = out
-        self.last_f = float(strength_factor)
-        self.done[strength_factor] = out
+        self.last_f = f
+        self.done[f] = out
         return out.value
+
+    def point(self, strength_factor: float) -> tuple[float, float]:
+        """(lambda, k) at a strength factor: k = -d log lambda / d log F of the optimal
+        mechanism (:func:`_slope`), NaN where lambda is 0 or infinite."""
+        f = float(strength_factor)
+        lam = self(f)
+        if f not in self.slopes:
+            self.slopes[f] = _slope(self.layout, f, self.factored, self.done[f])
+        return lam, self.slopes[f]
+
+
+WARM_START = True
+"""Carry the last LP's columns and basis to the next strength factor (``_Runner``)."""
+SLOPE_STEP = 1e-4
+"""Relative step in F of the central difference in :func:`_slope`."""
+
+
+def _slope(layout: Layout, f: float, factored: tuple[str, ...], out: Outcome) -> float:
+    """k = -d log lambda / d log F at F = f from one LP, without solving another.
+
+    Sensitivity of an LP optimum (the envelope theorem): with the optimal multipliers p and
+    row duals y held, d lambda / dF = sum_j p_j d(c_j - A_j^T y)/dF over the columns, whose
+    coefficients are smooth in F (tan phi'/F, c'/F and the layer holds/F); a central
+    difference of the reduced costs gives it. The LP's own lambda(F) has kinks where the
+    optimal basis changes and steps where a frictional mechanism starts to work for nothing,
+    so this is the slope of the current mechanism: the root search uses it for Newton steps
+    and keeps a bracket for the rest."""
+    lam = out.value
+    if not (0.0 < lam < LAMBDA_CAP) or out.dual is None:
+        return float("nan")
+    used = np.flatnonzero(out.multipliers.reshape(-1, 2).sum(axis=1) > 0.0)
+    p = out.multipliers.reshape(-1, 2)[used].ravel()
+    up = columns(layout, f * (1.0 + SLOPE_STEP), factored, used).reduced_cost(out.dual)
+    down = columns(layout, f * (1.0 - SLOPE_STEP), factored, used).reduced_cost(out.dual)
+    dlam_df = float(p @ (up - down)) / (2.0 * SLOPE_STEP * f)
+    return -f / lam * dlam_df
 
 
 def _mechanism(layout: Layout, out: Outcome, strength_factor: float) -> Mechanism:
@@ -146,9 +197,8 @@ def _mechanism(layout: Layout, out: Outcome, strength_factor: float) -> Mechanis
     normal = layout.tan_phi[active] / strength_factor * total[active]
     size = np.hypot(shear, normal)
     scale = float(size.max()) if size.size else 1.0
-    cols = columns(layout, strength_factor, ())
-    cost = cols.cost.reshape(-1, 2)
-    dissipation = np.maximum(cost[active, 0] * p[active, 0] + cost[active, 1] * p[active, 1], 0)
+    cost = columns(layout, strength_factor, (), active).cost.reshape(-1, 2)
+    dissipation = np.maximum(cost[:, 0] * p[active, 0] + cost[:, 1] * p[active, 1], 0)
     share = dissipation / dissipation.sum() if dissipation.sum() > 0 else dissipation
     a, b = lines.a[active], lines.b[active]
     return Mechanism(
@@ -216,9 +266,9 @@ def strength_factor(
     *,
     nodes: int = DEFAULT_NODES,
     solver: str = "auto",
-    rtol: float = 3e-3,
+    rtol: float = RTOL,
     coarse_nodes: int | None = None,
-    start: tuple[float, float] | None = None,
+    start: float | None = None,
 ) -> MechanismResult:
     """Strength reduction factor F with lambda(F) = 1 on the gravity loads (upper bound).
 
@@ -227,16 +277,16 @@ def strength_factor(
     term as the slip-circle check, where the layer forces join the resisting moment that F
     divides, so the two checks compare like with like; pullout is itself frictional.
     lambda(F) is monotone but not smooth (a step where c' = 0: no mechanism below some F,
-    free collapse above), so F is found by a bracketing search (:func:`_find_root`): steps
-    from the slope of log lambda against log F while the root is not bracketed, then
-    interpolation kept inside the bracket, bisection where lambda is 0 or infinite. Each LP
-    starts from the lines of the one before. F = 0: even at F = 1/64 the section collapses
-    (for example a cohesionless vertical face with no layers).
+    free collapse above), so F is found by a safeguarded Newton search (``root.find_root``):
+    Newton steps on log lambda against log F with the slope each LP gives by itself
+    (:func:`_slope`), kept inside a bracket once there is one, bisection where lambda is 0 or
+    infinite. Each LP starts from the lines of the one before. F = 0: even at F = 1/64 the
+    section collapses (for example a cohesionless vertical face with no layers).
 
-    ``coarse_nodes``: first find F on a grid of that many nodes (cheap) and start the search
-    on the fine grid from it and its slope: two to four fine LPs instead of five or six
-    (bench_mechanism.py). ``start``: (F, slope) of such a coarse answer already at hand
-    (``MechanismResult.factor`` and ``.slope``). The fine grid alone decides the answer.
+    ``start``: a guess of F (the slip circles' factor, or a coarse grid's answer); the
+    search begins there instead of at F = 1. ``coarse_nodes``: first find F on a grid of that
+    many nodes and start from it. Either only saves LPs: the working grid alone decides the
+    answer, to ``rtol``.
     """
     t0 = time.perf_counter()
     problem = _problem(model)
@@ -245,90 +295,51 @@ def strength_factor(
         coarse = strength_factor(problem, nodes=coarse_nodes, solver=solver, rtol=COARSE_RTOL)
         if coarse.factor == 0.0:
             return replace(coarse, seconds=time.perf_counter() - t0)
-        start = (coarse.factor, coarse.slope)
-    guess, slope, first_step = 1.0, FIRST_SLOPE, STEP_RANGE[1]
-    if start is not None:
-        guess, slope, first_step = float(start[0]), float(start[1]), 1.0 + 4.0 * COARSE_RTOL
+        start = coarse.factor
     run = _Runner(build_layout(problem, nodes), solver, GRAVITY)
-    root, at, slope = _find_root(run, guess, slope, rtol, first_step)
-    if not np.isfinite(root):
+    root = find_root(run, 1.0 if start is None else float(start), rtol)
+    return _strength_result(run, root, t0)
+
+
+def _strength_result(run: _Runner, root: Root, t0: float) -> MechanismResult:
+    if not np.isfinite(root.factor):
         raise EngineError(
             f"mechanism check: no mechanism forms even with strengths divided by {F_MAX:g}"
         )
-    run(at)  # the mechanism reported is the one found at the last F evaluated near the root
-    return replace(_result(run, "strength factor", root, t0), slope=slope)
+    run(root.at)  # the mechanism reported is the one found at the last F evaluated near the root
+    return replace(_result(run, "strength factor", root.factor, t0), slope=root.slope)
 
 
-FIRST_SLOPE = 3.0
-"""Guess of -d log lambda / d log F before two points give it: lambda ~ 1/F for purely
-cohesive strength, faster for frictional (dilation falls with tan phi'/F); 3 landed near the
-root on the bench walls (measured)."""
-COARSE_RTOL = 1e-2
-COLLAPSE_STEP = 1.1
-"""Step down in F from a collapse (lambda = 0: no slope to go by) before the root is
-bracketed; the start is usually within 10 % of the root (coarse grid or slip circles)."""
-STEP_RTOL = 1e-2
-"""Tolerance on F where lambda steps from above 1 to 0 (c' = 0: a frictional mechanism
-starts to do work for nothing): bisection only narrows a step, so it stops at 1 % and
-reports the stable end (the lower F)."""
-SLOPE_RANGE = (0.5, 12.0)
-STEP_RANGE = (1.02, 1.6)
-"""Smallest and largest step of F (as a ratio) while the root is not yet bracketed."""
+def least_strength_factor(
+    models: Sequence[MechanismSection | Problem],
+    starts: Sequence[float | None],
+    *,
+    nodes: int = DEFAULT_NODES,
+    solver: str = "auto",
+    rtol: float = RTOL,
+    within: float = 1.0,
+) -> list[MechanismResult | None]:
+    """:func:`strength_factor` of each model whose F is within ``within`` times the least
+    of them, None for the others (their F is only known to be above that): the cases of one
+    segment, where only the least F matters (and those close to it, to rank them).
 
-
-def _find_root(
-    run, f0: float, slope: float, rtol: float, first_step: float = 1.6
-) -> tuple[float, float, float]:
-    """(F, F evaluated last near it, slope) with lambda(F) = 1; (0, ., .) when even F_MIN
-    collapses, (inf, ., .) when nothing collapses up to F_MAX.
-
-    lambda ~ F^-k locally, so log lambda is nearly linear in log F: a point with
-    |log lambda| <= k rtol is within rtol of the root, which is then F lambda^(1/k).
-    ``first_step`` caps the first move from ``f0`` (small when ``f0`` comes from a coarse
-    grid: the fine root is within a few per cent of it, and a step in lambda is then
-    bracketed closely).
-    """
-    lo = hi = None  # (F, lambda) with lambda >= 1 (stable) / < 1 (collapses)
-    last = None
-    f = float(np.clip(f0, F_MIN, F_MAX))
-    for step_no in range(ROOT_STEPS):
-        cap = first_step if step_no == 0 else STEP_RANGE[1]
-        lam = min(run(f), LAMBDA_CAP)
-        if lam >= 1.0:
-            lo = (f, lam) if lo is None or f > lo[0] else lo
-        else:
-            hi = (f, lam) if hi is None or f < hi[0] else hi
-        if last is not None and lam > 0.0 and last[1] > 0.0 and abs(f - last[0]) > 0.0:
-            k = -np.log(lam / last[1]) / np.log(f / last[0])
-            if np.isfinite(k):
-                slope = float(np.clip(k, *SLOPE_RANGE))
-        last = (f, lam)
-        if 0.0 < lam < LAMBDA_CAP and abs(np.log(lam)) <= slope * rtol:
-            return f * lam ** (1.0 / slope), f, slope
-        if lo is not None and hi is not None:
-            ratio = hi[0] / lo[0]
-            if ratio - 1.0 <= (max(rtol, STEP_RTOL) if hi[1] == 0.0 else rtol):
-                return lo[0], lo[0], slope
-            if hi[1] > 0.0 and lo[1] < LAMBDA_CAP:
-                k = np.log(lo[1] / hi[1]) / np.log(ratio)
-                t = np.log(lo[1]) / k / np.log(ratio) if k > 0 else 0.5
-                t = float(np.clip(t, 0.1, 0.9))
-            else:
-                t = 0.5
-            f = lo[0] * ratio**t
-        elif lo is not None:
-            if f >= F_MAX:
-                return np.inf, f, slope
-            step = lam ** (1.0 / slope) * (1.0 + 2.0 * rtol) if lam < LAMBDA_CAP else STEP_RANGE[1]
-            f = min(f * float(np.clip(step, STEP_RANGE[0], cap)), F_MAX)
-        else:
-            if f <= F_MIN:
-                return 0.0, f, slope
-            step = (1.0 / lam) ** (1.0 / slope) * (1.0 + 2.0 * rtol) if lam > 0 else COLLAPSE_STEP
-            f = max(f / float(np.clip(step, STEP_RANGE[0], cap)), F_MIN)
-    raise EngineError(
-        f"mechanism check: the strength factor did not settle in {ROOT_STEPS} linear programmes"
-    )
-
-
-ROOT_STEPS = 40
+    One LP of each at its start (``starts``, None: F = 1) gives the root its own slope points
+    to; the searches run from the lowest of these, and each one after the first stops as soon
+    as an LP shows its F above ``within`` times the least so far (often that first LP)."""
+    t0 = time.perf_counter()
+    solver, nodes = _pick_solver(solver, nodes)
+    runs = [_Runner(build_layout(_problem(m), nodes), solver, GRAVITY) for m in models]
+    firsts = [float(np.clip(1.0 if s is None else s, F_MIN, F_MAX)) for s in starts]
+    guesses = []
+    for run, f in zip(runs, firsts, strict=True):
+        lam, k = run.point(f)
+        guesses.append(f * lam ** (1.0 / k) if np.isfinite(k) else (0.0 if lam == 0 else f))
+    least = np.inf
+    found: list[MechanismResult | None] = [None] * len(runs)
+    for i in np.argsort(guesses, kind="stable"):
+        root = find_root(runs[i], firsts[i], rtol, enough=within * least)
+        if root.above:
+            continue
+        found[i] = _strength_result(runs[i], root, t0)
+        least = min(least, root.factor)
+    return [r if r is not None and r.factor <= within * least else None for r in found]
