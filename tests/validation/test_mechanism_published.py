@@ -171,6 +171,6 @@ def test_stronger_grade_never_lowers_the_factor():
     """Upper-bound theorem: a stronger layer raises the dissipation of every mechanism, so
     F(20) <= F(40) <= F(80 kN/m), within the root tolerance."""
     factors = [strength_factor(_wall(t), nodes=250).factor for t in (20.0, 40.0, 80.0)]
-    assert factors[0] <= factors[1] * 1.004
-    assert factors[1] <= factors[2] * 1.004
+    assert factors[0] <= factors[1] * 1.01  # each F within the 0.5 % root tolerance
+    assert factors[1] <= factors[2] * 1.01
     assert factors[0] > 1.0

@@ -108,7 +108,7 @@ def test_stronger_grade_never_lowers_the_factor(plain):
     assert sum(strong_t) > sum(weak_t)
     f_weak = strength_factor(base.section, nodes=250, coarse_nodes=100).factor
     f_strong = strength_factor(strong.section, nodes=250, coarse_nodes=100).factor
-    assert f_weak <= f_strong * 1.004
+    assert f_weak <= f_strong * 1.01  # each F within the 0.5 % root tolerance
 
 
 def test_clay_foundation_gives_short_and_long_term_cases():
