@@ -64,6 +64,9 @@ class CorridorTable(DataTable):
         """Headings in the session's units."""
         for col in COLUMNS:
             self.columns[col.key].label = Text(column_heading(col.key, session.display))
+        # DataTable keys its drawings by a count of changes that a new label does not
+        # bump, and rows are replaced without it (_replace_row): count this one.
+        self._update_count += 1
         self.refresh()
 
     def _update_dimensions(self, new_rows: Iterable[object]) -> None:
@@ -179,8 +182,37 @@ class CorridorTable(DataTable):
                 self._draw(self.wall_line[wall], session, problems)
 
     def _draw(self, line: int, session: Session, problems: set[str]) -> None:
-        for c, cell in enumerate(self._cells(session, self.lines[line], problems)):
-            self.update_cell_at(Coordinate(line, c), cell)
+        cells = self._cells(session, self.lines[line], problems)
+        if not self._replace_row(line, cells):
+            for c, cell in enumerate(cells):
+                self.update_cell_at(Coordinate(line, c), cell)
+
+    def _replace_row(self, line: int, cells: list[Text]) -> bool:
+        """Put ``cells`` in line ``line`` and forget only that line's drawing; False when
+        this Textual's DataTable does not look as expected (the caller then takes the
+        public way).
+
+        DataTable's ``update_cell`` counts every change in one number that keys all its
+        render caches, so one edited row made it draw every visible cell again (about
+        150 ms of the UI thread at 160 columns, the same thread and lock the edit's own
+        screen runs under). Reads private parts of Textual 8's DataTable (pinned <9)."""
+        try:
+            row_key = self._row_locations.get_key(line)
+            data = self._data[row_key]
+            keys = [self._column_locations.get_key(c) for c in range(len(cells))]
+            caches = (self._cell_render_cache, self._row_render_cache)
+            lines, renderables = self._line_cache, self._row_renderable_cache
+        except (AttributeError, KeyError, IndexError):
+            return False
+        for key, cell in zip(keys, cells, strict=True):
+            data[key] = cell
+        renderables.discard((self._update_count, line))  # keyed (update count, line)
+        for cache in caches:  # cell and row caches: keys start with the row's key
+            for k in [k for k in cache.keys() if k and k[0] == row_key]:  # noqa: SIM118 (no __iter__)
+                cache.discard(k)
+        lines.clear()  # whole screen lines, cheap to join again from the row caches
+        self.refresh_row(line)
+        return True
 
     def update_all_gradually(self, session: Session) -> None:
         """Redraw every line after a whole screen, a batch per event-loop turn, the lines

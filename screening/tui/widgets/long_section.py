@@ -65,6 +65,16 @@ def column_chainages(start: np.ndarray, end: np.ndarray, width: int) -> tuple[np
     return x, starts
 
 
+def _append_runs(out: Text, chars: list[str], styles: list[str]) -> None:
+    """Append ``chars`` with one span per run of equal styles (a span per cell made the
+    strip the slowest thing on screen to draw after each edit)."""
+    start = 0
+    for c in range(1, len(chars) + 1):
+        if c == len(chars) or styles[c] != styles[start]:
+            out.append("".join(chars[start:c]), style=styles[start] or None)
+            start = c
+
+
 def section_text(
     corridor: Corridor,
     result: CorridorResult | None,
@@ -114,23 +124,30 @@ def section_text(
     on_cursor = inside[cursor] if 0 <= cursor < len(segs) else np.zeros(width, bool)
 
     out = Text()
+    column_style = [
+        CURSOR_STYLE
+        if on_cursor[c]
+        else (VERDICT_STYLE[NAMES[col_rank[c]]] if col_rank[c] >= 0 else "dim")
+        for c in range(width)
+    ]
     for r in range(bar_rows):
         floor = (bar_rows - 1 - r) * 8
-        for c in range(width):
-            fill = int(np.clip(levels[c] - floor, 0, 8))
-            style = VERDICT_STYLE[NAMES[col_rank[c]]] if col_rank[c] >= 0 else "dim"
-            if on_cursor[c]:
-                style = CURSOR_STYLE
-            out.append(BLOCKS[fill], style=style)
+        fills = np.clip(levels - floor, 0, 8)
+        _append_runs(out, [BLOCKS[int(f)] for f in fills], column_style)
         out.append("\n")
+    marks, mark_styles = [], []
     for c in range(width):
         if not occupied[c]:
-            out.append(" ")
+            marks.append(" ")
+            mark_styles.append("")
         elif col_rank[c] >= 0:
             name = NAMES[col_rank[c]]
-            out.append(VERDICT_MARK[name], style=VERDICT_STYLE[name])
+            marks.append(VERDICT_MARK[name])
+            mark_styles.append(VERDICT_STYLE[name])
         else:
-            out.append("·", style="dim")
+            marks.append("·")
+            mark_styles.append("dim")
+    _append_runs(out, marks, mark_styles)
     out.append("\n")
     caret = [" "] * width
     cols = np.flatnonzero(on_cursor)
