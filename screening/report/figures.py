@@ -294,9 +294,14 @@ def cross_section_svg(corridor: Corridor, result: CorridorResult, i: int, displa
         legend.append((cls, f"critical {name} circle"))
     body.append(p.axes(f"from the face ({unit})", f"above the base ({unit})"))
     cdr = float(result.min_cdr[i])
+    governing = result.governing[i]
+    if result.verdict[i] == "refer" and governing not in result.checks:
+        why = f"outside screening: {governing}"  # a scope rule has no CDR to show
+    else:
+        why = f"governing {governing} (CDR {cdr_text(cdr)})"
     title = (
         f"{seg.id}: {result.verdict[i]}; H = {display.format(big_h, 'm')}, "
-        f"L = {display.format(length, 'm')}, governing {result.governing[i]} (CDR {cdr_text(cdr)})"
+        f"L = {display.format(length, 'm')}, {why}"
     )
     body.append(f'<text x="60" y="20" class="title">{escape(title)}</text>')
     # legend in the air in front of the wall: the shared entries, then this figure's own
