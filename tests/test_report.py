@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import csv
 import io
+import math
 import re
 import xml.etree.ElementTree as ET
 from html.parser import HTMLParser
@@ -251,6 +252,35 @@ def test_cross_sections_find_the_critical_circles_the_screen_reports(screened):
         for name in families:
             if float(result.checks[name].demand[i]) > 0:
                 assert name in found
+
+
+def test_a_drawn_slip_surface_runs_from_its_exit_to_its_entry(screened):
+    """The slip surface is the arc between the two points where the circle meets the ground
+    (common practice, no source): the rest of the circle is no part of the mechanism, and
+    drawing it showed compound surfaces running tens of metres in front of the wall."""
+    from screening.report.figures import _circle_runs, slip_circles, slip_ends
+
+    corridor, result = screened
+    drawn = 0
+    for i in range(len(result)):
+        big_h = float(result.design_height_m[i])
+        d = float(result.embedment_m[i])
+        seg = corridor.segments[i]
+        beta = math.tan(math.radians(seg.backslope_deg))
+        toe = math.tan(math.radians(seg.toe_slope_deg))
+        for name, xc, yc, r in slip_circles(result, i):
+            ends = slip_ends(result, i, name)
+            if ends is None:
+                continue
+            (run,) = _circle_runs(xc, yc, r, big_h, d, beta, toe, ends)
+            xs = [p[0] for p in run]
+            assert xs[0] == pytest.approx(ends[0], abs=1e-6)
+            assert xs[-1] == pytest.approx(ends[1], abs=1e-6)
+            assert all(b >= a for a, b in zip(xs, xs[1:], strict=False))
+            for x, y in run:  # each point on the circle
+                assert math.hypot(x - xc, y - yc) == pytest.approx(r, rel=1e-9)
+            drawn += 1
+    assert drawn > 0
 
 
 def test_cross_sections_beyond_the_limit_are_left_out_with_a_note(screened):

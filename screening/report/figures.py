@@ -181,8 +181,28 @@ XS_WIDTH, XS_HEIGHT = 640, 400
 """Largest size of a cross-section in pixels (a flat drawing is made less tall)."""
 
 
-def _circle_runs(xc, yc, r, big_h, d, beta, toe) -> list[list[tuple[float, float]]]:
-    """The lower half of a slip circle where it lies below the ground, as runs of points."""
+def slip_ends(result: CorridorResult, i: int, name: str) -> tuple[float, float] | None:
+    """x of the exit and the entry of circle ``name`` (``<name>_circle_exit_x_m``, ...), or
+    None when the screen does not give them."""
+    try:
+        xe = float(np.asarray(result.extras[f"{name}_circle_exit_x_m"])[i])
+        xn = float(np.asarray(result.extras[f"{name}_circle_entry_x_m"])[i])
+    except (KeyError, IndexError, TypeError, ValueError):
+        return None
+    return (xe, xn) if math.isfinite(xe) and math.isfinite(xn) and xn > xe else None
+
+
+def _circle_runs(xc, yc, r, big_h, d, beta, toe, ends=None) -> list[list[tuple[float, float]]]:
+    """The slip surface of a circle as runs of points: the arc from its exit to its entry
+    when ``ends`` gives them (the circle beyond them is not part of the mechanism), else the
+    lower half where it lies below the ground."""
+    if ends is not None:
+        # both ends lie on the circle's lower half (the search keeps the centre above them)
+        te, tn = (math.pi + math.acos(max(-1.0, min(1.0, -(x - xc) / r))) for x in ends)
+        if te < tn:
+            t = np.linspace(te, tn, 121)
+            xs, ys = (xc + r * np.cos(t)).tolist(), (yc + r * np.sin(t)).tolist()
+            return [list(zip(xs, ys, strict=True))]
     t = np.linspace(np.pi, 2 * np.pi, 121)
     x, y = xc + r * np.cos(t), yc + r * np.sin(t)
     below = y <= _ground_m(x, big_h, d, beta, toe) + 1e-9
@@ -214,7 +234,7 @@ def cross_section_svg(corridor: Corridor, result: CorridorResult, i: int, displa
     deep = -0.35 * big_h - (big_h if toe > 0.0 else 0.0)
     arcs = []
     for name, xc, yc, r in slip_circles(result, i):
-        runs = _circle_runs(xc, yc, r, big_h, d, beta, toe)
+        runs = _circle_runs(xc, yc, r, big_h, d, beta, toe, slip_ends(result, i, name))
         if runs:
             arcs.append((name, runs, r))
             xs = [p[0] for run in runs for p in run]

@@ -316,6 +316,10 @@ def _report(ctx: ScreenContext, length_m: FloatArray) -> dict[str, np.ndarray]:
         out[f"{fam}_circle_x_m"] = v[f"{fam}_centre_x_m"]
         out[f"{fam}_circle_y_m"] = v[f"{fam}_centre_y_m"]
         out[f"{fam}_circle_r_m"] = v[f"{fam}_radius_m"]
+        # where the slip surface meets the ground: the arc between them is the surface, the
+        # rest of the circle is not (a drawing must stop there)
+        out[f"{fam}_circle_exit_x_m"] = v[f"{fam}_exit_m"]
+        out[f"{fam}_circle_entry_x_m"] = v[f"{fam}_entry_m"]
         out[f"{fam}_factor"] = v[f"{fam}_factor"]
         out[f"{fam}_converged"] = v[f"{fam}_converged"]
     return out
