@@ -37,7 +37,7 @@ from screening.engine.context import build_context, take_rows
 from screening.engine.mechanism.section import MechanismLayer, MechanismSection, SoilStrength
 from screening.engine.result import CorridorResult
 from screening.engine.slip.check import factor_cases
-from screening.engine.slip.compound import slip_input
+from screening.engine.slip.compound import case_rows, slip_input
 from screening.engine.slip.wall import Factors, WallSlipInput
 from screening.model.errors import InputError
 
@@ -78,22 +78,7 @@ def screen_inputs(a: SegmentArrays, result: CorridorResult, rows: np.ndarray) ->
 
 def compound_cases(a: SegmentArrays) -> list[Factors]:
     """The factor set's cases for overall stability, as the slip check takes them."""
-    cs = a.cases
-    uses = cs.uses("compound").tolist()
-    listed = [
-        Factors(
-            name=name,
-            weight=float(cs.ev[k]),
-            permanent=float(cs.es[k]),
-            live=float(cs.ls[k]),
-            tan_phi=float(cs.tan_phi[k]),
-            cohesion=float(cs.cohesion[k]),
-            undrained=float(cs.undrained[k]),
-        )
-        for k, name in enumerate(cs.names)
-        if uses[k]
-    ]
-    return factor_cases(a.method, listed)
+    return factor_cases(a.method, case_rows(a.cases))
 
 
 def mechanism_cases(

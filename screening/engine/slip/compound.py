@@ -163,24 +163,23 @@ class _Memo:
         return {key: value[rows, use] for key, value in self.values.items()}
 
 
-def _case_rows(ctx: ScreenContext) -> list[Factors]:
-    """The factor set's cases as objects with the LoadCase field names."""
-    cs = ctx.cases
-    rows = []
-    for k, name in enumerate(cs.names):
-        rows.append(
-            Factors(
-                name=name,
-                weight=float(cs.ev[k]),
-                permanent=float(cs.es[k]),
-                live=float(cs.ls[k]),
-                tan_phi=float(cs.tan_phi[k]),
-                cohesion=float(cs.cohesion[k]),
-                undrained=float(cs.undrained[k]),
-            )
+def case_rows(cs) -> list[Factors]:
+    """The cases of ``cs`` (a screen's CaseArrays) that check overall stability, as objects
+    with the LoadCase field names (what ``factor_cases`` takes)."""
+    uses = cs.uses("compound").tolist()
+    return [
+        Factors(
+            name=name,
+            weight=float(cs.ev[k]),
+            permanent=float(cs.es[k]),
+            live=float(cs.ls[k]),
+            tan_phi=float(cs.tan_phi[k]),
+            cohesion=float(cs.cohesion[k]),
+            undrained=float(cs.undrained[k]),
         )
-    uses = cs.uses("compound")
-    return [r for r, u in zip(rows, uses.tolist(), strict=True) if u]
+        for k, name in enumerate(cs.names)
+        if uses[k]
+    ]
 
 
 def _flatten(found: CompoundResult) -> dict[str, np.ndarray]:
@@ -199,7 +198,7 @@ def _flatten(found: CompoundResult) -> dict[str, np.ndarray]:
 def _static_run(ctx: ScreenContext, length_m, todo, warm) -> CompoundResult:
     """The static check under the factor set, for rows ``todo`` of ``ctx``."""
     inp = slip_input(ctx, length_m).take(todo)
-    cases = _case_rows(ctx)
+    cases = case_rows(ctx.cases)
     return compound_check(inp, ctx.a.method, ctx.a.resistance, cases, STANDARD, warm=warm)
 
 
