@@ -21,6 +21,7 @@ from screening.tui.screens.mechanism_worker import MechanismMixin, store_for
 from screening.tui.widgets.mechanism_view import MechanismView
 
 from .conftest import make_app
+from .test_workflows import settle
 
 SIZE = (160, 50)
 IDS = ("WL-01", "WL-02", "WR-01", "R-06")
@@ -37,15 +38,6 @@ def small_file(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
     path = tmp_path / "small.toml"
     store.save(path, small)
     return path
-
-
-async def _screened(pilot, app) -> None:
-    for _ in range(400):
-        await app.workers.wait_for_complete()
-        await pilot.pause()
-        if not app.corridor_screen.busy:
-            return
-    raise AssertionError("the corridor is still being screened")
 
 
 async def _mechanism_landed(pilot, app) -> None:
@@ -76,7 +68,7 @@ async def test_runs_after_the_screen_with_progress_and_shows_in_detail(small_fil
     monkeypatch.setattr(MechanismMixin, "_mechanism_progress", spy)
     app = make_app(small_file)
     async with app.run_test(size=SIZE) as pilot:
-        await _screened(pilot, app)
+        await settle(pilot, app)
         await _mechanism_landed(pilot, app)
         session = app.corridor_screen.session
         flagged_rows = check.needs_mechanism(session.result).tolist()
@@ -138,7 +130,7 @@ async def test_an_edited_segment_never_shows_its_old_mechanism(small_file):
     not shown until the check runs again on the new inputs."""
     app = make_app(small_file)
     async with app.run_test(size=SIZE) as pilot:
-        await _screened(pilot, app)
+        await settle(pilot, app)
         await _mechanism_landed(pilot, app)
         session = app.corridor_screen.session
         row = int(check.needs_mechanism(session.result)[0])
