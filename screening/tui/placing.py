@@ -14,6 +14,7 @@ from dataclasses import dataclass
 from screening.model import Corridor, Segment
 from screening.model.errors import InputError
 from screening.model.units import Display
+from screening.profile.split import wall_code
 
 MIN_ROOM_M = 0.1
 """A gap narrower than this is no room for a segment (the chainage step of the tool)."""
@@ -104,20 +105,14 @@ def place_after(corridor: Corridor, row: int, length_m: float) -> Place:
     )
 
 
-def wall_code(name: str) -> str:
-    """Initials of a wall name for ids: ``East approach`` -> ``EA``."""
-    words = re.findall(r"[A-Za-z0-9]+", name)
-    if not words:
-        return "W"
-    if len(words) == 1:
-        return words[0][:4].upper()
-    return "".join(w[0] for w in words).upper()[:4]
-
-
 def first_segment(corridor: Corridor) -> Segment:
     """The first segment of an empty corridor: its defaults, wall named after the corridor,
     chainage 0 to 10 m, 3 m exposed height; the user edits it at once."""
     d = corridor.defaults
+    inherited = {  # every [defaults] key a segment carries (as a profile's segments get them)
+        f.name: getattr(d, f.name) for f in dataclasses.fields(d) if f.name != "wall"
+    }
+    inherited["spacing_m"] = d.spacing_m if d.spacing_m is not None else d.reinforcement.spacing_m
     return Segment(
         id=f"{wall_code(corridor.name)}-01",
         wall=corridor.name,
@@ -125,19 +120,7 @@ def first_segment(corridor: Corridor) -> Segment:
         chainage_end_m=FIRST_LENGTH_M,
         height_start_m=FIRST_HEIGHT_M,
         height_end_m=FIRST_HEIGHT_M,
-        fill=d.fill,
-        retained=d.retained,
-        foundation=d.foundation,
-        reinforcement=d.reinforcement,
-        spacing_m=d.spacing_m if d.spacing_m is not None else d.reinforcement.spacing_m,
-        structure=d.structure,
-        surcharge_kpa=d.surcharge_kpa,
-        traffic=d.traffic,
-        backslope_deg=d.backslope_deg,
-        toe_slope_deg=d.toe_slope_deg,
-        seismic_kh=d.seismic_kh,
-        water_in_fill=d.water_in_fill,
-        arrangement=d.arrangement,
+        **inherited,
     )
 
 
