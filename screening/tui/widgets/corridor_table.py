@@ -23,6 +23,9 @@ from screening.tui.view import View, ViewRow
 MARK_STYLE = "reverse"
 BATCH = 100
 """Rows redrawn per event-loop turn in a gradual update (about 50 ms)."""
+FEW_ROWS = 20
+"""Up to this many edited rows are redrawn alone (each scans the table's render caches for
+its own drawings); more are cheaper redrawn together, as a whole update is."""
 
 
 class CorridorTable(DataTable):
@@ -65,7 +68,7 @@ class CorridorTable(DataTable):
         for col in COLUMNS:
             self.columns[col.key].label = Text(column_heading(col.key, session.display))
         # DataTable keys its drawings by a count of changes that a new label does not
-        # bump, and rows are replaced without it (_replace_row): count this one.
+        # bump, and rows are replaced without it (_draw): count this one.
         self._update_count += 1
         self.refresh()
 
@@ -169,50 +172,56 @@ class CorridorTable(DataTable):
     def update_rows(self, rows: Iterable[int], session: Session) -> None:
         """Redraw segments ``rows`` in place, and the lines of their walls."""
         problems = session.problem_ids()
-        walls: set[str] = set()
-        for i in rows:
-            if i >= len(session.corridor.segments):
-                continue
-            walls.add(session.corridor.segments[i].wall)
-            line = self.position.get(i)
-            if line is not None:
-                self._draw(line, session, problems)
-        for wall in walls:
-            if wall in self.wall_line:
-                self._draw(self.wall_line[wall], session, problems)
+        rows = [i for i in rows if i < len(session.corridor.segments)]
+        lines = [self.position[i] for i in rows if i in self.position]
+        lines += [
+            self.wall_line[w]
+            for w in {session.corridor.segments[i].wall for i in rows}
+            if w in self.wall_line
+        ]
+        self._draw(lines, session, problems, alone=len(lines) <= FEW_ROWS)
 
-    def _draw(self, line: int, session: Session, problems: set[str]) -> None:
-        cells = self._cells(session, self.lines[line], problems)
-        if not self._replace_row(line, cells):
-            for c, cell in enumerate(cells):
-                self.update_cell_at(Coordinate(line, c), cell)
+    def _draw(
+        self, lines: list[int], session: Session, problems: set[str], alone: bool = False
+    ) -> None:
+        """Put new cells in ``lines``. DataTable's ``update_cell`` bumps one count that keys
+        all its render caches, so each call made it draw every visible cell again (about
+        150 ms of the UI thread at 160 columns for one edited row, under the lock the edit's
+        own screen needs). Here the cells go in directly; then, for a few lines (``alone``),
+        only their drawings are forgotten, else the count is bumped once for them all.
+        Reads private parts of Textual 8's DataTable (pinned <9); the public way if they
+        are not there."""
+        made = [(line, self._cells(session, self.lines[line], problems)) for line in lines]
+        if not all(self._put(line, cells) for line, cells in made):
+            for line, cells in made:
+                for c, cell in enumerate(cells):
+                    self.update_cell_at(Coordinate(line, c), cell)
+            return
+        if alone:
+            for line, _ in made:
+                self._forget(line)
+        elif made:
+            self._update_count += 1
+            self.refresh()
 
-    def _replace_row(self, line: int, cells: list[Text]) -> bool:
-        """Put ``cells`` in line ``line`` and forget only that line's drawing; False when
-        this Textual's DataTable does not look as expected (the caller then takes the
-        public way).
-
-        DataTable's ``update_cell`` counts every change in one number that keys all its
-        render caches, so one edited row made it draw every visible cell again (about
-        150 ms of the UI thread at 160 columns, the same thread and lock the edit's own
-        screen runs under). Reads private parts of Textual 8's DataTable (pinned <9)."""
+    def _put(self, line: int, cells: list[Text]) -> bool:
         try:
-            row_key = self._row_locations.get_key(line)
-            data = self._data[row_key]
+            data = self._data[self._row_locations.get_key(line)]
             keys = [self._column_locations.get_key(c) for c in range(len(cells))]
-            caches = (self._cell_render_cache, self._row_render_cache)
-            lines, renderables = self._line_cache, self._row_renderable_cache
         except (AttributeError, KeyError, IndexError):
             return False
-        for key, cell in zip(keys, cells, strict=True):
-            data[key] = cell
-        renderables.discard((self._update_count, line))  # keyed (update count, line)
-        for cache in caches:  # cell and row caches: keys start with the row's key
+        data.update(zip(keys, cells, strict=True))
+        return True
+
+    def _forget(self, line: int) -> None:
+        """Forget what was drawn of line ``line`` only, and redraw it."""
+        row_key = self._row_locations.get_key(line)
+        self._row_renderable_cache.discard((self._update_count, line))  # (count, line)
+        for cache in (self._cell_render_cache, self._row_render_cache):  # keyed row first
             for k in [k for k in cache.keys() if k and k[0] == row_key]:  # noqa: SIM118 (no __iter__)
                 cache.discard(k)
-        lines.clear()  # whole screen lines, cheap to join again from the row caches
+        self._line_cache.clear()  # whole screen lines, cheap to join again from the rows
         self.refresh_row(line)
-        return True
 
     def update_all_gradually(self, session: Session) -> None:
         """Redraw every line after a whole screen, a batch per event-loop turn, the lines
@@ -229,8 +238,7 @@ class CorridorTable(DataTable):
         def batch(start: int) -> None:
             if generation != self._generation or segments is not session.corridor.segments:
                 return
-            for line in order[start : start + BATCH]:
-                self._draw(line, session, problems)
+            self._draw(order[start : start + BATCH], session, problems)
             self.updating = start + BATCH < len(order)
             if self.updating:
                 self.set_timer(0.005, partial(batch, start + BATCH))  # let other events run
