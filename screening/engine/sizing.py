@@ -121,6 +121,7 @@ def size_length(ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraChec
             steps[rows], exhausted[rows], set_by[rows] = sub
             stuck = rows[exhausted[rows]]
             stuck = stuck[np.isin(set_by[stuck], GRADE_HELPED) & (ctx.a.grade_count[stuck] > 1)]
+            stuck = _hopeful(ctx, s, sizing_extras, stuck, core_steps, top)
             for level in range(1, int(ctx.a.grade_count.max(initial=1))):
                 stuck = stuck[ctx.a.grade_count[stuck] > level]
                 if stuck.size == 0:
@@ -145,6 +146,20 @@ def size_length(ctx: ScreenContext, s: InternalSetup, extras: Sequence[ExtraChec
     )
 
 
+def _hopeful(ctx, s, extras, stuck, core_steps, top) -> IntArray:
+    """The rows of ``stuck`` that pass somewhere in the scan with the heaviest grade in every
+    layer. No check's CDR falls as the grade rises (the rupture and compound capacities
+    grow with it, the others do not depend on it), so a row failing every scan length at
+    its heaviest grade fails them at each lighter one too, and the grade-by-grade scans of
+    :func:`size_length` are for the others only (it was most of a screen's slip searches
+    where many segments cannot pass: every grade was scanned at every length)."""
+    if stuck.size == 0:
+        return stuck
+    heaviest = _with_boost(ctx, stuck, ctx.a.grade_count[stuck] - 1)
+    _, exhausted, _ = _scan(heaviest, s, extras, stuck, core_steps[stuck], top[stuck])
+    return stuck[~exhausted]
+
+
 def _top(ctx: ScreenContext) -> IntArray:
     g = ctx.geom
     step = ctx.a.rules.length_step_m
@@ -160,10 +175,12 @@ def _passes(ctx, s, extras, length_m) -> tuple[BoolArray, np.ndarray]:
     return cdr >= 1.0 - PASS_TOL, name
 
 
-def _with_boost(ctx: ScreenContext, rows: IntArray, level: int) -> ScreenContext:
-    """The context of ``rows`` with every layer ``level`` grades above its lightest."""
+def _with_boost(ctx: ScreenContext, rows: IntArray, level) -> ScreenContext:
+    """The context of ``rows`` with every layer ``level`` (one for all, or one per row)
+    grades above its lightest."""
     sub = ctx.take(rows)
-    return replace(sub, grade_boost=np.full(rows.size, level, dtype=np.int64))
+    boost = np.broadcast_to(np.asarray(level, dtype=np.int64), (rows.size,)).copy()
+    return replace(sub, grade_boost=boost)
 
 
 def _bisect(ctx, s, extras, lo, hi, ok_lo, name_lo):

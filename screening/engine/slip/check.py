@@ -13,7 +13,7 @@ from dataclasses import dataclass, fields, replace
 import numpy as np
 
 from screening.engine.result import CDR_CAP, BoolArray, FloatArray
-from screening.engine.slip.density import STANDARD, WARM, SearchDensity
+from screening.engine.slip.density import STANDARD, WARM, WARM_GRID, SearchDensity
 from screening.engine.slip.search import CriticalCircle, SlipSearch, search
 from screening.engine.slip.wall import (
     Factors,
@@ -194,8 +194,9 @@ def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSe
         if use_warm:
             h = sub.height_m[pick]
             steps = np.stack([0.05 * h, 0.05 * h, np.full(pick.size, np.radians(4.0))], axis=-1)
-            seeds = _global_seeds(sub.take(pick))
-            start = np.concatenate([warm_rows[pick], seeds], axis=1)
+            here = sub.take(pick)
+            seeds = _global_seeds(here, warm_rows[pick])
+            start = np.concatenate([warm_rows[pick], seeds, wall_grid(here, WARM_GRID)[0]], 1)
             found = search(sec, so, lay, start, b, WARM, kh[pick], initial_steps=steps)
             # A family lost (every known circle of it changed family with L): full search.
             # Known circles come in (compound, global) pairs, so odd places are global.
@@ -238,14 +239,25 @@ def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSe
     return _join(rows.size, parts)
 
 
-def _global_seeds(inp: WallSlipInput) -> FloatArray:
-    """Four deep circles under the reinforced zone (n, 4, 3), so a warm refinement always has
-    a start in the global family even when the known global circle turned compound."""
+def _global_seeds(inp: WallSlipInput, known: FloatArray) -> FloatArray:
+    """Deep circles under the reinforced zone (n, 8 + k, 3), so a warm refinement always has
+    a start in the global family even when the known global circle turned compound: four
+    generic ones at 70-90 degrees, four steeper ones (a shallow foundation's or a toe slope's
+    global circle runs far out and deep), and each known circle ``known`` (n, k, 3) stretched
+    behind the new length and turned 10 degrees deeper (a longer block lifts the old circle
+    into it; NaN rows stay NaN and are filled as the known ones are)."""
     h, length = inp.height_m, inp.length_m
-    exit_ = np.stack([-0.5 * h] * 2 + [-1.0 * h] * 2, axis=1)
-    entry = np.stack([length + 0.3 * h, length + h] * 2, axis=1)
-    angle = np.broadcast_to(np.radians([80.0, 70.0, 90.0, 80.0]), exit_.shape)
-    return np.stack([exit_, entry, angle], axis=-1)
+    exit_ = np.stack([-0.5 * h] * 2 + [-1.0 * h] * 2 + [-1.5 * h] * 2 + [-1.0 * h] * 2, axis=1)
+    entry = np.stack([length + 0.3 * h, length + h] * 2 + [length + h, length + 2.0 * h] * 2, 1)
+    degrees = [80.0, 70.0, 90.0, 80.0, 115.0, 125.0, 110.0, 130.0]
+    angle = np.broadcast_to(np.radians(degrees), exit_.shape)
+    generic = np.stack([exit_, entry, angle], axis=-1)
+    stretched = known.copy()
+    stretched[..., 1] = (
+        np.maximum(known[..., 1], length[:, None] + 0.1 * h[:, None]) + 0.1 * h[:, None]
+    )
+    stretched[..., 2] = known[..., 2] + np.radians(10.0)
+    return np.concatenate([generic, stretched], axis=1)
 
 
 def _take(obj, pick):

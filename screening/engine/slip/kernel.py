@@ -3,8 +3,8 @@ and Bishop's iteration (METHOD section 6), instead of (segments x circles x slic
 
 The numbers are those of :mod:`screening.engine.slip.geometry`, :mod:`.family` and
 :mod:`.bishop`, rule for rule (tests/unit/test_slip_kernel.py compares them circle by
-circle); only the order of the sums over slices differs, so a factor agrees to about 1e-12.
-The kernel always works in double precision.
+circle); only the order of the sums over slices and the way a slice's cosine is formed
+differ, so a factor agrees to about 1e-12. The kernel always works in double precision.
 
 ``_refine`` is the pattern search of :func:`screening.engine.slip.search.search` on these
 circles, step for step (the same candidates, skips, choices and family records as its numpy
@@ -12,9 +12,8 @@ loop). All of it is in this one file on purpose: numba's cache is invalidated by
 that holds a function, and a caller in another file would keep a stale copy of the circle
 function after an edit here.
 
-These are plain Python functions; :mod:`screening.engine.slip.kernel_search` compiles them
-with numba and says when the compiled code is ready. numba is optional: without it (or with
-:data:`ENABLED` set False) :func:`available` is False and the search uses the numpy path.
+Plain Python functions, compiled by :mod:`screening.engine.slip.kernel_search` with numba
+(optional: without it, or with :data:`ENABLED` False, the search uses the numpy path).
 """
 
 from __future__ import annotations
@@ -88,8 +87,7 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
     xc = 0.5 * (xe + xn) - vy / safe * offset
     yc = 0.5 * (ye + yn) + vx / safe * offset
     r2 = r * r
-    valid = vx > 1e-6 and yc >= max(ye, yn) - 1e-9
-    valid = valid and math.isfinite(xc) and math.isfinite(yc)
+    valid = vx > 1e-6 and yc >= max(ye, yn) - 1e-9 and math.isfinite(xc) and math.isfinite(yc)
     for v in range(gx.shape[1]):
         if not valid:
             break
@@ -111,6 +109,7 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
     # Slices (geometry.make_slices) and the sums Bishop needs.
     face = min(max(0.0, xe), xn)
     back = min(max(big_l, xe), xn)
+    inv_r = 1.0 / r
     drive_sum = 0.0
     kh_sum = 0.0
     resist = 0.0
@@ -132,8 +131,10 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
                 top = gy[i, piece] + t * (gy[i, piece + 1] - gy[i, piece])
             else:
                 top = gy[i, piece + 1]
-            inside = r2 - (x - xc) ** 2
-            base = yc - math.sqrt(inside) if inside >= 0.0 else top
+            dx = x - xc
+            inside = r2 - dx * dx
+            root = math.sqrt(max(inside, 0.0))
+            base = yc - root if inside >= 0.0 else top
             if math.isnan(base):
                 base = top
             base = min(base, top)
@@ -147,8 +148,9 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
             w = w + b * (0.0 if front else surcharge[i])
             where = 0 if (base < 0 or front) else mid
             cs, ts = coh[i, where], tphi[i, where]
-            sin_a = min(max((x - xc) / r, -1.0), 1.0)
-            cos_a = math.sqrt(1.0 - sin_a * sin_a)
+            # cos = sqrt(r^2 - dx^2) / r: the root the base needed, not a second one
+            sin_a = min(max(dx * inv_r, -1.0), 1.0)
+            cos_a = root * inv_r
             pore = WATER * max(min(water[i], top) - base, 0.0)
             drive_sum += w * sin_a
             kh_sum += w * (yc - 0.5 * (base + top))
@@ -183,8 +185,7 @@ def _circle(sec, soil, lay, i, xe, xn, ang, counts, fracs, kh_i, tol, max_it, wo
     if not drive > 1e-9:
         return np.inf, True, cls, xc, yc, r, drive  # no driving moment: F = inf, converged
     f = (r * resist + restoring) / drive
-    if not (math.isfinite(f) and f > 0):
-        f = 1.0
+    f = f if math.isfinite(f) and f > 0 else 1.0
     done = False
     for _ in range(max_it):
         total = 0.0
