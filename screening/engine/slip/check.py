@@ -193,7 +193,10 @@ def _search_rows(sub, section, soils, layers, density, kh, warm, rows) -> SlipSe
         b = _take(bounds, pick)
         if use_warm:
             h = sub.height_m[pick]
-            steps = np.stack([0.05 * h, 0.05 * h, np.full(pick.size, np.radians(4.0))], axis=-1)
+            # First steps 0.15H and 8 degrees (0.05H and 4 before): far enough to leave the
+            # known circle's basin when the critical one has moved with L (2,000 segments
+            # against a fine search at every length: the largest shortfall in L 1.0 -> 0.3 m)
+            steps = np.stack([0.15 * h, 0.15 * h, np.full(pick.size, np.radians(8.0))], axis=-1)
             here = sub.take(pick)
             seeds = _global_seeds(here, warm_rows[pick])
             start = np.concatenate([warm_rows[pick], seeds, wall_grid(here, WARM_GRID)[0]], 1)
