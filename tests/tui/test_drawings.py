@@ -100,6 +100,19 @@ def test_backslope_toe_slope_and_traffic_are_drawn(demo):
     assert "↓" not in sloped.plain
 
 
+def test_long_section_names_the_tallest_input_not_the_tallest_column(demo):
+    """The label's height is the wall's tallest segment end as typed, at any width: the
+    columns sample the profile between segment ends, so a segment rising to 7.0 m at its
+    start may be drawn from 6.9 m on (what the label read before)."""
+    i = next(k for k, s in enumerate(demo.segments) if s.id == "R-05")
+    segs = list(demo.segments)
+    segs[i] = dataclasses.replace(segs[i], height_start_m=7.0)
+    taller = dataclasses.replace(demo, segments=tuple(segs))
+    for width in range(90, 161, 7):
+        text = section_text(taller, None, i, width, 8).plain.split("\n")
+        assert text[-1].rstrip().endswith("max exposed 7.0 m"), width
+
+
 def test_long_section_compresses_gaps_and_marks_the_cursor(demo):
     result = engine.screen(demo)
     start = np.array([s.chainage_start_m for s in demo.segments])

@@ -169,9 +169,12 @@ def section_text(
         label = f"{m(chainage, 'm'):.0f}"
         if all(ch == " " for ch in axis[c : c + len(label) + 1]) and c + len(label) <= width:
             axis[c : c + len(label)] = list(label)
-    tail = f"{m(float(end.max()), 'm'):.0f} {u} · {wall} · max exposed {m(top, 'm'):.1f} {u}"
+    # the wall's tallest input, not the tallest drawn column (columns sample the profile
+    # between segment ends, so a 7.0 m end drawn one column in read 6.9 m)
+    peak = float(max(h0.max(), h1.max()))
+    tail = f"{m(float(end.max()), 'm'):.0f} {u} · {wall} · max exposed {m(peak, 'm'):.1f} {u}"
     if len(tail) > width - 8:
-        tail = f"{m(float(end.max()), 'm'):.0f} {u} · max {m(top, 'm'):.1f} {u}"
+        tail = f"{m(float(end.max()), 'm'):.0f} {u} · max {m(peak, 'm'):.1f} {u}"
     if all(ch == " " for ch in axis[width - len(tail) - 1 :]):
         axis[width - len(tail) :] = list(tail)
     out.append("".join(axis), style="dim")
